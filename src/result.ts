@@ -45,6 +45,22 @@ export interface PredicateRow {
   suspects: number;
 }
 
+/** A check that ran, so that reports can list the ones that found nothing too (SARIF rules, JUnit cases). */
+export interface CheckInfo {
+  /** The id findings carry in `Finding.check`; `model` for the relational model. */
+  id: string;
+  /** One line: what the check looks for. */
+  title: string;
+  /** The severity its findings get unless a finding says otherwise. */
+  severity: Severity;
+}
+
+/** A finding that a suppressions file accepted: it stays out of the gate's counts but not out of the reports. */
+export interface SuppressedFinding {
+  finding: Finding;
+  suppression: { reason: string; expires?: string };
+}
+
 export interface GateOutcome {
   passed: boolean;
   /** One line per threshold crossed: `3 errors > --max-errors 0`. */
@@ -83,5 +99,9 @@ export interface AuditReport {
   plausibilityHistogram?: number[];
   /** Ranked: violations and suspects in one list, gravest and least plausible first. */
   findings: Finding[];
+  /** The checks that ran (the model included when it scored), whether or not they found anything. */
+  checks?: CheckInfo[];
+  /** Findings accepted by the suppressions file; not part of `findings` nor of the summary counts. */
+  suppressed?: SuppressedFinding[];
   gate?: GateOutcome;
 }
