@@ -1,0 +1,238 @@
+import type { Graph } from '../graph/store.js';
+import { TermKind, termKind } from '../graph/terms.js';
+import { Random } from '../model/random.js';
+import type { BackendName, FitOptions, ModelConfig, TrainedModel } from '../model/types.js';
+import type { ProgressSink } from '../progress.js';
+import type { OutOfFoldScores } from './plausibility.js';
+
+/**
+ * Out-of-fold scoring: a model that has trained on a triple, or passed messages along it, vouches for
+ * it (DETECTION-NOTES.md: in-sample DistMult memorised injected errors within a few epochs). So the
+ * scored triples are split into k folds; for each fold a model is fitted with that fold's triples
+ * hidden from training *and* from message passing (`FitOptions.exclude`), and only that model scores
+ * them. Every triple's figure comes from a model that never saw it.
+ *
+ * Warm starts: a fold model may start from weights that never saw the fold. `half` fits two models,
+ * each with one half of the folds hidden, and starts each fold's model from the one that hid it
+ * (Measured in tests/scoring/crossfit.test.ts: starting from a model fitted on *everything* lets the
+ * fold's triples leak back in — a planted error scores better than cold — so that is not offered.)
+ */
+
+export type FitFunction = (graph: Graph, options?: FitOptions) => Promise<TrainedModel>;
+export type RankFunction = (
+  model: TrainedModel,
+  graph: Graph,
+  triples: Int32Array,
+) => Promise<{ objectRank: Float64Array; subjectRank: Float64Array; score: Float32Array }>;
+
+export type WarmStart = 'none' | 'half';
+
+export interface CrossFitOptions {
+  /** Number of folds k (at least 2). */
+  folds?: number;
+  seed?: number;
+  /** Model settings for every fold model. */
+  model?: Partial<ModelConfig>;
+  backend?: BackendName | 'auto';
+  warmStart?: WarmStart;
+  /** Share of the per-fold epochs a warm-started fold model trains for. */
+  warmEpochShare?: number;
+  /** Also compute filtered subject and object ranks (needed for the `rank` and `combined` bases). */
+  ranks?: boolean;
+  /** Triples to score (1 = score); the others stay in every fold's training as context. Default: all scorable. */
+  only?: Uint8Array;
+  /** Time budget in seconds for all the fits together; shared evenly among them. */
+  maxSeconds?: number;
+  progress?: ProgressSink;
+  /** The training function: `fit` from `src/model/` (injectable for tests). */
+  fit: FitFunction;
+  /** The ranking function: `filteredRanks` from `src/scoring/ranking.ts`; required with `ranks`. */
+  rank?: RankFunction;
+}
+
+export interface CrossFitResult extends OutOfFoldScores {
+  /** The fold (0-based) each scored triple was held out in. */
+  fold: Uint8Array;
+  folds: number;
+  backend: BackendName;
+  /** Seconds spent fitting and scoring, all folds together. */
+  seconds: { fit: number; score: number };
+  /** Epochs each fold model trained (from its history). */
+  epochs: number[];
+  config: ModelConfig | undefined;
+}
+
+/** Triples whose subject and object are resources (IRIs or blank nodes): the ones a model can score. */
+export function scorableTriples(graph: Graph): Uint8Array {
+  const out = new Uint8Array(graph.size);
+  const keys = graph.terms.allKeys();
+  const isResource = new Uint8Array(keys.length);
+  for (let t = 0; t < keys.length; t++) isResource[t] = termKind(keys[t]!) === TermKind.Literal ? 0 : 1;
+  for (let i = 0; i < graph.size; i++) out[i] = isResource[graph.s[i]!]! & isResource[graph.o[i]!]!;
+  return out;
+}
+
+/** Assigns each selected triple to one of k folds of near-equal size, at random; -1 for the others. */
+export function assignFolds(selected: Uint8Array, k: number, seed: number): Int8Array {
+  const idx: number[] = [];
+  for (let i = 0; i < selected.length; i++) if (selected[i]) idx.push(i);
+  const order = new Random(seed).shuffle(Int32Array.from(idx));
+  const fold = new Int8Array(selected.length).fill(-1);
+  order.forEach((t, j) => {
+    fold[t] = j % k;
+  });
+  return fold;
+}
+
+const BATCH = 65_536;
+
+/** Logits of the given graph triples under one model; NaN where the model has no index for a term. */
+export async function scoreTriples(model: TrainedModel, graph: Graph, triples: Int32Array): Promise<Float32Array> {
+  const out = new Float32Array(triples.length).fill(Number.NaN);
+  const eOf = model.entities.ofTerm, rOf = model.relations.ofTerm;
+  for (let start = 0; start < triples.length; start += BATCH) {
+    const part = triples.subarray(start, start + BATCH);
+    const keep: number[] = [];
+    for (let j = 0; j < part.length; j++) {
+      const t = part[j]!;
+      if ((eOf[graph.s[t]!] ?? -1) >= 0 && (eOf[graph.o[t]!] ?? -1) >= 0 && (rOf[graph.p[t]!] ?? -1) >= 0) keep.push(j);
+    }
+    if (keep.length === 0) continue;
+    const s = Int32Array.from(keep, (j) => eOf[graph.s[part[j]!]!]!);
+    const r = Int32Array.from(keep, (j) => rOf[graph.p[part[j]!]!]!);
+    const o = Int32Array.from(keep, (j) => eOf[graph.o[part[j]!]!]!);
+    const logits = await model.score(s, r, o);
+    keep.forEach((j, m) => {
+      out[start + j] = logits[m]!;
+    });
+  }
+  return out;
+}
+
+/**
+ * Scores every selected triple out-of-fold. The result lists the scored triples in graph order; a
+ * triple the fold model could not place (a predicate it does not model) keeps a NaN logit.
+ */
+export async function crossFit(graph: Graph, options: CrossFitOptions): Promise<CrossFitResult> {
+  const k = options.folds ?? 5;
+  if (!Number.isInteger(k) || k < 2 || k > 100) throw new RangeError(`folds must be an integer from 2 to 100, not ${k}`);
+  if (options.ranks && !options.rank) throw new Error('crossFit: ranks requested without a rank function');
+  const seed = options.seed ?? options.model?.seed ?? 1;
+  const progress = options.progress ?? (() => {});
+  const scorable = scorableTriples(graph);
+  const selected = options.only ? scorable.map((v, i) => v & (options.only![i] ? 1 : 0)) : scorable;
+  const foldOf = assignFolds(selected, k, seed);
+
+  const triples: number[] = [];
+  for (let i = 0; i < graph.size; i++) if (foldOf[i]! >= 0) triples.push(i);
+  const scored = Int32Array.from(triples);
+  const position = new Int32Array(graph.size).fill(-1);
+  scored.forEach((t, j) => {
+    position[t] = j;
+  });
+  const logit = new Float32Array(scored.length).fill(Number.NaN);
+  const subjectRank = options.ranks ? new Float64Array(scored.length).fill(Number.NaN) : undefined;
+  const objectRank = options.ranks ? new Float64Array(scored.length).fill(Number.NaN) : undefined;
+  const fold = Uint8Array.from(scored, (t) => foldOf[t]!);
+
+  const warm = options.warmStart ?? 'none';
+  const fitsPlanned = k + (warm === 'half' ? 2 : 0);
+  const perFitSeconds = options.maxSeconds === undefined ? undefined : options.maxSeconds / fitsPlanned;
+  const base: FitOptions = { ...options.model };
+  if (options.backend !== undefined) base.backend = options.backend;
+  if (perFitSeconds !== undefined) base.maxSeconds = perFitSeconds;
+
+  let fitSeconds = 0, scoreSeconds = 0;
+  const epochs: number[] = [];
+  let backend: BackendName = 'cpu';
+  let config: ModelConfig | undefined;
+  let fitsDone = 0;
+  let candidates = 0;
+  const timedFit = async (exclude: Uint8Array, extra: FitOptions, label: string): Promise<TrainedModel> => {
+    const started = performance.now();
+    const model = await options.fit(graph, {
+      ...base,
+      ...extra,
+      exclude,
+      progress: (e) => progress({ ...e, phase: 'fit', detail: `${label}${e.detail ? ` ${e.detail}` : ''}` }),
+    });
+    fitSeconds += (performance.now() - started) / 1000;
+    fitsDone++;
+    progress({ phase: 'folds', done: fitsDone, total: fitsPlanned, detail: label });
+    backend = model.backend;
+    config = model.config;
+    candidates = model.entities.count;
+    return model;
+  };
+
+  // Halves for warm starting: folds [0, k/2) form half 0, the rest half 1.
+  const halfModels: Array<TrainedModel | undefined> = [undefined, undefined];
+  if (warm === 'half') {
+    for (const h of [0, 1]) {
+      const exclude = new Uint8Array(graph.size);
+      for (let i = 0; i < graph.size; i++) if (foldOf[i]! >= 0 && (foldOf[i]! < k / 2 ? 0 : 1) === h) exclude[i] = 1;
+      halfModels[h] = await timedFit(exclude, { seed: seed + 1000 + h }, `half ${h + 1}/2`);
+    }
+  }
+
+  try {
+    for (let f = 0; f < k; f++) {
+      const exclude = new Uint8Array(graph.size);
+      const members: number[] = [];
+      for (let i = 0; i < graph.size; i++) {
+        if (foldOf[i] === f) {
+          exclude[i] = 1;
+          members.push(i);
+        }
+      }
+      const extra: FitOptions = { seed: seed + f };
+      const start = halfModels[f < k / 2 ? 0 : 1];
+      if (start) {
+        extra.warmStart = start;
+        const full = options.model?.epochs ?? start.config.epochs;
+        extra.epochs = Math.max(1, Math.round(full * (options.warmEpochShare ?? 0.3)));
+      }
+      const model = await timedFit(exclude, extra, `fold ${f + 1}/${k}`);
+      try {
+        epochs.push(model.history.length === 0 ? 0 : model.history[model.history.length - 1]!.epoch);
+        const started = performance.now();
+        const foldTriples = Int32Array.from(members);
+        const logits = await scoreTriples(model, graph, foldTriples);
+        let ranks: Awaited<ReturnType<RankFunction>> | undefined;
+        if (options.ranks && options.rank) ranks = await options.rank(model, graph, foldTriples);
+        foldTriples.forEach((t, j) => {
+          const at = position[t]!;
+          logit[at] = logits[j]!;
+          if (ranks && subjectRank && objectRank) {
+            subjectRank[at] = ranks.subjectRank[j]!;
+            objectRank[at] = ranks.objectRank[j]!;
+          }
+        });
+        scoreSeconds += (performance.now() - started) / 1000;
+        progress({ phase: 'score', done: f + 1, total: k });
+      } finally {
+        model.dispose();
+      }
+    }
+  } finally {
+    for (const m of halfModels) m?.dispose();
+  }
+
+  const result: CrossFitResult = {
+    triples: scored,
+    predicate: Int32Array.from(scored, (t) => graph.p[t]!),
+    logit,
+    candidates,
+    fold,
+    folds: k,
+    backend,
+    seconds: { fit: fitSeconds, score: scoreSeconds },
+    epochs,
+    config,
+  };
+  if (subjectRank && objectRank) {
+    result.subjectRank = subjectRank;
+    result.objectRank = objectRank;
+  }
+  return result;
+}
