@@ -48,6 +48,11 @@ export interface CrossFitOptions {
   fit: FitFunction;
   /** The ranking function: `filteredRanks` from `src/scoring/ranking.ts`; required with `ranks`. */
   rank?: RankFunction;
+  /**
+   * Receives each fold model after it scored its fold, and then owns it (must dispose it), e.g. to
+   * explain suspects with the model that did not see them. Without it, fold models are disposed.
+   */
+  keep?: (fold: number, model: TrainedModel) => void;
 }
 
 export interface CrossFitResult extends OutOfFoldScores {
@@ -193,6 +198,7 @@ export async function crossFit(graph: Graph, options: CrossFitOptions): Promise<
         extra.epochs = Math.max(1, Math.round(full * (options.warmEpochShare ?? 0.3)));
       }
       const model = await timedFit(exclude, extra, `fold ${f + 1}/${k}`);
+      let kept = false;
       try {
         epochs.push(model.history.length === 0 ? 0 : model.history[model.history.length - 1]!.epoch);
         const started = performance.now();
@@ -210,8 +216,12 @@ export async function crossFit(graph: Graph, options: CrossFitOptions): Promise<
         });
         scoreSeconds += (performance.now() - started) / 1000;
         progress({ phase: 'score', done: f + 1, total: k });
+        if (options.keep) {
+          options.keep(f, model);
+          kept = true;
+        }
       } finally {
-        model.dispose();
+        if (!kept) model.dispose();
       }
     }
   } finally {

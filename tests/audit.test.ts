@@ -1,0 +1,119 @@
+import { describe, expect, it } from 'vitest';
+import { auditGraphDetailed, rankFindings, type AuditSteps } from '../src/audit.js';
+import type { Finding } from '../src/findings.js';
+import { graphFromKeys } from '../src/graph/store.js';
+import { literalKey } from '../src/graph/terms.js';
+import { fakeFit } from './scoring/fake-model.js';
+
+const ex = (x: string): string => `http://example.org/${x}`;
+const rows: Array<[string, string, string]> = [];
+for (let i = 0; i < 60; i++) rows.push([ex(`e${i}`), ex(`p${i % 3}`), ex(`e${(i * 7 + 3) % 60}`)]);
+rows.push([ex('e1'), ex('label'), literalKey('one')]);
+const graph = graphFromKeys(rows, 'data.nt');
+
+function steps(violationOn?: number): AuditSteps & { fake: ReturnType<typeof fakeFit> } {
+  const fake = fakeFit();
+  return {
+    fake,
+    fit: fake.fit,
+    checks: async (g) => {
+      const findings: Finding[] = [];
+      if (violationOn !== undefined) {
+        findings.push({
+          kind: 'violation',
+          check: 'range',
+          severity: 'error',
+          subject: g.terms.key(g.s[violationOn]!),
+          predicate: g.terms.key(g.p[violationOn]!),
+          object: g.terms.key(g.o[violationOn]!),
+          message: 'object is not of the declared range',
+          evidence: {},
+          triple: violationOn,
+        });
+      }
+      return { findings, checks: [{ id: 'range', title: 'rdfs:range', severity: 'error' }] };
+    },
+  };
+}
+
+describe('auditGraphDetailed', () => {
+  it('scores every scorable triple, lists suspects below the threshold, explained, and ranks violations first', async () => {
+    const s = steps(5);
+    const run = await auditGraphDetailed(graph, { folds: 3, threshold: 0.2, top: 5, calibrate: false }, s);
+    const { report, scores } = run;
+    expect(scores!.triples).toHaveLength(60);
+    expect(report.summary.scored).toBe(60);
+    expect(report.folds).toBe(3);
+    expect(report.backend).toBe('cpu');
+    const suspects = report.findings.filter((f) => f.kind === 'suspect');
+    expect(suspects).toHaveLength(5);
+    suspects.forEach((f, i) => {
+      expect(f.rank).toBe(i + 1);
+      expect(f.plausibility).toBeLessThan(0.2);
+      expect(f.check).toBe('model');
+      expect(f.source).toEqual({ file: 'data.nt', line: f.triple! + 1 });
+      expect(f.evidence.preferredObjects).toHaveLength(3);
+      if (i > 0) expect(f.plausibility!).toBeGreaterThanOrEqual(suspects[i - 1]!.plausibility!);
+    });
+    // The lowest plausibilities in the full table are the suspects'.
+    const sorted = Array.from(scores!.plausibility).sort((a, b) => a - b);
+    expect(suspects.map((f) => f.plausibility)).toEqual(sorted.slice(0, 5).map((x) => Number(x.toFixed(4))));
+    // The error-severity violation comes first and carries the triple's plausibility.
+    expect(report.findings[0]!.kind).toBe('violation');
+    expect(report.findings[0]!.plausibility).toBeTypeOf('number');
+    expect(report.summary.byKind).toEqual({ syntax: 0, violation: 1, suspect: 5 });
+    expect(report.checks!.map((c) => c.id)).toEqual(['range', 'model']);
+    expect(report.plausibilityHistogram!.reduce((a, b) => a + b, 0)).toBe(60);
+    expect(report.predicates.map((p) => p.triples).reduce((a, b) => a + b, 0)).toBe(graph.size);
+    expect(report.durations.fit).toBeTypeOf('number');
+    // Every fold model is disposed once explanations are done.
+    expect(s.fake.live()).toBe(0);
+  });
+
+  it('reports only on the `only` triples and keeps the rest as context', async () => {
+    const only = Uint8Array.from({ length: graph.size }, (_, i) => (i < 20 ? 1 : 0));
+    const s = steps(40);
+    const { report, scores } = await auditGraphDetailed(graph, { folds: 2, threshold: 1, top: 100, calibrate: false, only }, s);
+    expect(scores!.triples).toHaveLength(20);
+    for (const f of report.findings) expect(f.triple).toBeLessThan(20);
+    expect(report.predicates.map((p) => p.triples).reduce((a, b) => a + b, 0)).toBe(20);
+    for (const call of s.fake.calls) for (let i = 20; i < graph.size; i++) expect(call.exclude![i]).toBe(0);
+  });
+
+  it('uses a given model without fitting', async () => {
+    const s = steps();
+    const model = await s.fake.fit(graph);
+    s.fake.calls.length = 0;
+    const { report } = await auditGraphDetailed(graph, { trainedModel: model, threshold: 0.1, calibrate: false }, s);
+    expect(s.fake.calls).toHaveLength(0);
+    expect(report.folds).toBe(0);
+    expect(report.options.model).toBe('given');
+    expect(report.findings.filter((f) => f.kind === 'suspect').length).toBeGreaterThan(0);
+  });
+
+  it('measures a trust figure on a corrupted copy without letting planted triples into the findings', async () => {
+    const s = steps();
+    const { report } = await auditGraphDetailed(graph, { folds: 2, threshold: 0.5, top: 1000, calibrate: true }, s);
+    const trust = report.summary.trust!;
+    expect(trust.injected).toBeGreaterThanOrEqual(3);
+    expect(Object.keys(trust.byKind).sort()).toEqual(['predicate', 'random', 'range']);
+    expect(trust.averagePrecision).toBeGreaterThanOrEqual(0);
+    expect(trust.averagePrecision).toBeLessThanOrEqual(1);
+    expect(trust.verdict).toMatch(/planted/);
+    for (const f of report.findings) {
+      expect(f.triple).toBeLessThan(graph.size);
+      expect(f.source?.file).toBe('data.nt');
+    }
+  });
+});
+
+describe('rankFindings', () => {
+  it('orders by severity, then plausibility (unscored last), then check and triple', () => {
+    const f = (severity: Finding['severity'], plausibility: number | undefined, check: string, triple: number): Finding => ({
+      kind: 'violation', check, severity, subject: '', predicate: '', object: '', message: '', evidence: {}, triple,
+      ...(plausibility === undefined ? {} : { plausibility }),
+    });
+    const ranked = rankFindings([f('note', 0.1, 'a', 1), f('warning', undefined, 'a', 2), f('warning', 0.3, 'b', 3), f('error', 0.9, 'c', 4), f('warning', 0.3, 'a', 5)]);
+    expect(ranked.map((x) => x.triple)).toEqual([4, 5, 3, 2, 1]);
+  });
+});
