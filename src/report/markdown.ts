@@ -6,12 +6,14 @@ import { DEFAULT_TOP, NOT_VERDICTS, formatCount, formatShare, sourceLabel, termL
  * `summary.md`: short enough for a pull-request comment. Counts, the gate's outcome, the trust
  * figure and the top findings; the rest is in report.html and report.json.
  *
- * Every string from the data is escaped: a backslash before each character Markdown gives meaning
- * to (CommonMark §2.4 allows it before any ASCII punctuation), `&` included so that no entity is
- * decoded, line breaks folded to spaces so that a table row stays one row.
+ * Every string from the data is escaped: a backslash before each character that means something in
+ * the middle of a line (CommonMark 0.31 §2.4 allows it before any ASCII punctuation): emphasis,
+ * code spans, links, raw HTML and autolinks, table pipes, strikethrough, and `&` so that no entity
+ * is decoded. Data never starts a line, so block markers (`#`, `-`, `+`) need no escape. Line breaks
+ * fold to spaces so that a table row stays one row.
  */
 
-const MARKDOWN_SPECIAL = /[\\`*_{}[\]<>()#+\-!|~&]/g;
+const MARKDOWN_SPECIAL = /[\\`*_[\]<>|~&]/g;
 
 export function escapeMarkdown(text: string): string {
   return text.replace(/\r\n|[\r\n\u2028\u2029]/g, ' ').replace(MARKDOWN_SPECIAL, (c) => `\\${c}`);

@@ -17,6 +17,11 @@ export interface TerminalOptions extends ReportOptions {
   width?: number;
 }
 
+/** Control characters from the data would move the cursor or recolour the terminal: shown as spaces. */
+function plain(text: string): string {
+  return text.replace(/[\u0000-\u001f\u007f-\u009f\u2028\u2029]/g, ' ');
+}
+
 function paintSeverity(c: ChalkInstance, severity: Severity, text: string): string {
   if (severity === 'error') return c.red.bold(text);
   if (severity === 'warning') return c.yellow(text);
@@ -48,26 +53,26 @@ export function formatTerminalSummary(report: AuditReport, options: TerminalOpti
       `trust: average precision ${formatShare(t.averagePrecision)} vs ${formatShare(t.baseline)} for a random order, ` +
         `precision@${formatCount(t.injected)} ${formatShare(t.precisionAtK)}`,
     );
-    out.push(c.dim(`  ${truncate(t.verdict, 300)}`));
+    out.push(c.dim(`  ${plain(truncate(t.verdict, 300))}`));
   }
   const shown = report.findings.slice(0, Math.max(0, top));
   if (shown.length > 0) {
     out.push(c.bold(`top ${shown.length}:`));
     const pad = String(shown.length).length;
     for (const [i, f] of shown.entries()) {
-      const where = sourceLabel(f);
+      const where = plain(truncate(sourceLabel(f), 120));
       const plaus = f.plausibility === undefined ? '' : ` p=${formatShare(f.plausibility)}`;
       const body = tripleLabel(f, 80) || f.message;
       const num = String(i + 1).padStart(pad);
-      out.push(`  ${num} ${paintSeverity(c, f.severity, f.severity.padEnd(7))} ${f.check}${plaus}${where ? `  ${where}` : ''}`);
-      out.push(`  ${' '.repeat(pad + 1)}${truncate(body.replace(/[\u0000-\u001f\u007f-\u009f]/g, ' '), Math.max(20, width - pad - 5))}`);
+      out.push(`  ${num} ${paintSeverity(c, f.severity, f.severity.padEnd(7))} ${plain(truncate(f.check, 40))}${plaus}${where ? `  ${where}` : ''}`);
+      out.push(`  ${' '.repeat(pad + 1)}${plain(truncate(body, Math.max(20, width - pad - 5)))}`);
     }
     if (report.findings.length > shown.length) out.push(c.dim(`  … ${formatCount(report.findings.length - shown.length)} more in the reports`));
   }
   if (report.suppressed && report.suppressed.length > 0) out.push(`${formatCount(report.suppressed.length)} accepted by the suppressions file`);
   if (report.gate) {
     out.push(report.gate.passed ? c.green.bold('gate: passed') : c.red.bold('gate: FAILED'));
-    for (const line of report.gate.crossed) out.push(`  ${line}`);
+    for (const line of report.gate.crossed) out.push(`  ${plain(line)}`);
   }
   out.push(c.dim(NOT_VERDICTS));
   return `${out.join('\n')}\n`;
