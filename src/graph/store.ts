@@ -49,8 +49,13 @@ class Column<T extends Int32Array | Uint32Array | Uint16Array> {
     }
     this.data[this.length++] = v;
   }
+  /** The values as an array of exactly their length; a copy when the buffer has spare room, so the spare room can be freed. */
   trimmed(): T {
-    return this.data.subarray(0, this.length) as T;
+    return this.data.length === this.length ? this.data : (this.data.slice(0, this.length) as T);
+  }
+  release(): void {
+    this.data = this.make(0);
+    this.length = 0;
   }
 }
 
@@ -90,6 +95,11 @@ export class GraphBuilder {
 
   get size(): number {
     return this.s.length;
+  }
+
+  /** The files registered so far, in index order. */
+  get fileNames(): readonly string[] {
+    return this.files;
   }
 
   /** Adds a triple of term ids; returns false (and counts a duplicate) when it is already present. */
@@ -140,6 +150,9 @@ export class GraphBuilder {
     this.slots = new Int32Array(0);
     const n = this.s.length;
     const s = this.s.trimmed(), p = this.p.trimmed(), o = this.o.trimmed(), g = this.g.trimmed();
+    const file = this.file.trimmed(), line = this.line.trimmed();
+    // A builder kept alive by its caller must not keep the growth buffers too.
+    for (const column of [this.s, this.p, this.o, this.g, this.file, this.line]) column.release();
     const termCount = this.terms.size;
     return {
       terms: this.terms,
@@ -148,7 +161,7 @@ export class GraphBuilder {
       p,
       o,
       g,
-      provenance: { files: this.files, file: this.file.trimmed(), line: this.line.trimmed() },
+      provenance: { files: this.files, file, line },
       bySubject: buildCsr(s, termCount),
       byObject: buildCsr(o, termCount),
       byPredicate: buildCsr(p, termCount),

@@ -78,6 +78,19 @@ export function toNTriples(key: string): string {
   }
 }
 
+/** V8 caps a Map at 2^24 entries. */
+const MAX_TERMS = 16_777_216;
+
+/**
+ * A copy of `key` that does not share memory with the string it was cut from. Parsers hand out
+ * substrings of their input buffer; V8 keeps such a substring as a view that pins the whole buffer,
+ * so keeping one per distinct term would keep the entire file in memory. Short strings are always
+ * copied by V8 already.
+ */
+function detach(key: string): string {
+  return key.length < 13 ? key : (JSON.parse(JSON.stringify(key)) as string);
+}
+
 /**
  * String ⇄ id dictionary. Ids are dense and assigned in order of first appearance, so a graph read
  * twice from the same files gets the same ids.
@@ -91,8 +104,12 @@ export class TermDictionary {
     let id = this.ids.get(key);
     if (id === undefined) {
       id = this.keys.length;
-      this.ids.set(key, id);
-      this.keys.push(key);
+      if (id >= MAX_TERMS) {
+        throw new RangeError(`the term dictionary is full (${MAX_TERMS.toLocaleString('en')} distinct terms)`);
+      }
+      const own = detach(key);
+      this.ids.set(own, id);
+      this.keys.push(own);
     }
     return id;
   }
