@@ -1,0 +1,52 @@
+import { row, type Graph } from '../graph/store.js';
+import { RDF_LANG_STRING, XSD_STRING } from '../graph/terms.js';
+import type { Schema } from '../schema/index.js';
+import { shortName } from '../schema/vocab.js';
+
+/** The datatype IRI of a literal key, read from its tail without unescaping the lexical form. */
+export function datatypeOfKey(key: string): string {
+  if (key.endsWith('>')) return key.slice(key.lastIndexOf('"^^<') + 4, -1);
+  return key.charCodeAt(key.length - 1) === 34 ? XSD_STRING : RDF_LANG_STRING;
+}
+
+export function isLiteralKey(key: string): boolean {
+  return key.charCodeAt(0) === 34;
+}
+
+/** The predicates that occur in the data graph, in id order. */
+export function* dataPredicates(graph: Graph): Generator<number> {
+  const offsets = graph.byPredicate.offsets;
+  for (let p = 0; p + 1 < offsets.length; p++) if (offsets[p + 1]! > offsets[p]!) yield p;
+}
+
+/** Term keys of term-space ids, for evidence. */
+export function keysOf(schema: Schema, ids: Iterable<number>): string[] {
+  return [...ids].map((id) => schema.key(id));
+}
+
+/** Short names joined for a message: `ex:A, ex:B`. */
+export function names(keys: readonly string[], max = 4): string {
+  const shown = keys.slice(0, max).map(shortName).join(', ');
+  return keys.length > max ? `${shown} and ${keys.length - max} more` : shown;
+}
+
+/** `file:line` of a location, for evidence. */
+export function at(source: { file: string; line: number } | undefined): string | undefined {
+  return source ? `${source.file}:${source.line}` : undefined;
+}
+
+/** The first triple that mentions `term`, as subject if it has one, else as object; -1 when none. */
+export function firstTripleOf(graph: Graph, term: number): number {
+  if (term < 0) return -1;
+  const out = row(graph.bySubject, term);
+  if (out.length > 0) return out[0]!;
+  const into = row(graph.byObject, term);
+  return into.length > 0 ? into[0]! : -1;
+}
+
+/** Drops undefined entries so evidence stays JSON-clean under exactOptionalPropertyTypes. */
+export function compact(record: Record<string, unknown>): Record<string, unknown> {
+  const out: Record<string, unknown> = {};
+  for (const [k, v] of Object.entries(record)) if (v !== undefined) out[k] = v;
+  return out;
+}
