@@ -35,8 +35,9 @@ export const disjointClasses: Check = {
       if (!pairs) continue;
       const typeTriples = Array.from(row(graph.bySubject, entity)).filter((t) => graph.p[t] === schema.typePredicate);
       for (const [a, b] of pairs) {
-        // Point at the rdf:type triple that brings in the second class.
-        const via = typeTriples.find((t) => schema.superClasses(graph.o[t]!).includes(b)) ?? typeTriples[0]!;
+        // Point at the later of the two rdf:type triples that bring the classes in: the one that made the clash.
+        const first = (cls: number): number => typeTriples.find((t) => schema.superClasses(graph.o[t]!).includes(cls)) ?? typeTriples[0]!;
+        const via = Math.max(first(a), first(b));
         const declaredAt = at(schema.axiomSource('disjointWith', a, b));
         findings.push(
           ctx.finding({
