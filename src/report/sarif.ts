@@ -115,32 +115,31 @@ export function writeSarif(report: AuditReport): string {
   if (report.gate) {
     invocation.properties = { gatePassed: report.gate.passed, crossed: report.gate.crossed };
   }
-  const log = {
-    $schema: SARIF_SCHEMA_URI,
-    version: '2.1.0',
-    runs: [
-      {
-        tool: {
-          driver: {
-            name: report.tool.name,
-            version: report.tool.version,
-            semanticVersion: report.tool.version,
-            rules: checks.map(rule),
-          },
-        },
-        invocations: [invocation],
-        artifacts,
-        // Columns come from JavaScript string offsets in the readers.
-        columnKind: 'utf16CodeUnits',
-        results,
-        properties: {
-          command: report.command,
-          formatVersion: report.formatVersion,
-          scored: report.summary.scored,
-          note: 'Findings are candidates for review, not verdicts.',
-        },
+  const run = {
+    tool: {
+      driver: {
+        name: report.tool.name,
+        version: report.tool.version,
+        semanticVersion: report.tool.version,
+        rules: checks.map(rule),
       },
-    ],
+    },
+    invocations: [invocation],
+    artifacts,
+    // Columns come from JavaScript string offsets in the readers.
+    columnKind: 'utf16CodeUnits',
+    properties: {
+      command: report.command,
+      formatVersion: report.formatVersion,
+      scored: report.summary.scored,
+      note: 'Findings are candidates for review, not verdicts.',
+    },
   };
-  return `${JSON.stringify(log, null, 2)}\n`;
+  // Results go one per line, like the findings in report.json: a 100,000-result log stays a size
+  // that tools load, and two logs diff line by line.
+  const runText = JSON.stringify(run, null, 2).replace(/\n/g, '\n    ');
+  const resultsText =
+    results.length === 0 ? '[]' : `[\n${results.map((r) => `        ${JSON.stringify(r)}`).join(',\n')}\n      ]`;
+  const runWithResults = `${runText.slice(0, runText.lastIndexOf('\n'))},\n      "results": ${resultsText}\n    }`;
+  return `{\n  "$schema": ${JSON.stringify(SARIF_SCHEMA_URI)},\n  "version": "2.1.0",\n  "runs": [\n    ${runWithResults}\n  ]\n}\n`;
 }
