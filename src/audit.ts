@@ -7,9 +7,15 @@ import type { BackendName, ModelConfig, TrainedModel } from './model/types.js';
 import { crossFit, scoreTriples, scorableTriples, type CrossFitResult, type FitFunction, type RankFunction, type WarmStart } from './scoring/crossfit.js';
 import { histogram, plausibility, type OutOfFoldScores, type PlausibilityBasis } from './scoring/plausibility.js';
 import { explainTriples, explanationLine, type Explanation } from './scoring/explain.js';
-import { corruptGraph, CORRUPTION_KINDS } from './evaluation/corrupt.js';
+import { corruptGraph, CORRUPTION_KINDS, termToField } from './evaluation/corrupt.js';
 import { detectionTable } from './evaluation/detection.js';
 import { VERSION } from './version.js';
+import { PlumbError } from './errors.js';
+import { readGraph, type ReadOptions, type ReadResult } from './sources/index.js';
+import { checkGraph, rejectionFinding } from './checks/run.js';
+import type { RunChecksOptions } from './checks/index.js';
+import { fit, loadModel } from './model/index.js';
+import { filteredRanks } from './scoring/ranking.js';
 
 /**
  * The audit: read, check, fit (or load) a model, score every triple out-of-fold, and merge the
@@ -39,6 +45,8 @@ export const AUDIT_DEFAULTS = {
 export interface AuditOptions {
   /** Run the schema and mined checks (default true). */
   checks?: boolean;
+  /** Options of the checks (closed world, mined thresholds, which checks). */
+  checkOptions?: RunChecksOptions;
   /** The model: settings for fitting fold models. */
   model?: Partial<ModelConfig>;
   backend?: BackendName | 'auto';
@@ -93,6 +101,11 @@ export interface TripleScores {
   logit: Float32Array;
   /** Fold each triple was held out in; -1 when scored by a given model. */
   fold: Int8Array;
+  /**
+   * 1-based position of each scored triple in the audit's whole ranking: triples with findings in
+   * the order of the findings list, then the rest by rising plausibility.
+   */
+  order: Int32Array;
 }
 
 export interface AuditRun {
@@ -372,7 +385,7 @@ export async function auditGraphDetailed(graph: Graph, options: AuditGraphOption
     backend = scored.backend;
     folds = scored.folds;
     const { oof, plaus } = scored;
-    scores = { triples: oof.triples, plausibility: plaus, logit: oof.logit, fold: oof.fold };
+    scores = { triples: oof.triples, plausibility: plaus, logit: oof.logit, fold: oof.fold, order: new Int32Array(oof.triples.length) };
     const threshold = options.threshold ?? AUDIT_DEFAULTS.threshold;
     const order: number[] = [];
     oof.triples.forEach((t, j) => {
@@ -409,7 +422,7 @@ export async function auditGraphDetailed(graph: Graph, options: AuditGraphOption
     void started;
 
     const scorableCount = oof.triples.length;
-    if (options.calibrate ?? scorableCount <= AUDIT_DEFAULTS.calibrateUpTo) {
+    if (options.calibrate ?? (!options.trainedModel && scorableCount <= AUDIT_DEFAULTS.calibrateUpTo)) {
       trust = await time('calibrate', () => trustFigure(graph, options, steps, progress));
     }
   }
@@ -422,6 +435,7 @@ export async function auditGraphDetailed(graph: Graph, options: AuditGraphOption
     }
   }
   const findings = rankFindings([...(options.readFindings ?? []), ...violations, ...suspects]);
+  if (scores) fillOrder(scores, findings);
 
   const report = assembleReport(graph, options, {
     findings,
@@ -434,6 +448,48 @@ export async function auditGraphDetailed(graph: Graph, options: AuditGraphOption
     ...(histogramCounts ? { histogram: histogramCounts } : {}),
   });
   return { report, scores, graph };
+}
+
+/** The whole ranking: triples with findings first (in list order), then by rising plausibility. */
+function fillOrder(scores: TripleScores, findings: readonly Finding[]): void {
+  const at = new Map<number, number>();
+  scores.triples.forEach((t, j) => at.set(t, j));
+  const placed = new Uint8Array(scores.triples.length);
+  let next = 1;
+  for (const f of findings) {
+    const j = f.triple === undefined ? undefined : at.get(f.triple);
+    if (j === undefined || placed[j]) continue;
+    placed[j] = 1;
+    scores.order[j] = next++;
+  }
+  const rest: number[] = [];
+  for (let j = 0; j < scores.triples.length; j++) if (!placed[j]) rest.push(j);
+  const key = (j: number): number => (Number.isNaN(scores.plausibility[j]!) ? 2 : scores.plausibility[j]!);
+  rest.sort((a, b) => key(a) - key(b) || scores.triples[a]! - scores.triples[b]!);
+  for (const j of rest) scores.order[j] = next++;
+}
+
+export const SCORES_FILE = 'scores.tsv';
+export const SCORES_HEADER = ['order', 'subject', 'predicate', 'object', 'graph', 'plausibility', 'logit', 'fold'] as const;
+
+/**
+ * Every scored triple as a tab-separated table (terms in N-Triples form), in the audit's ranking
+ * order: what `plumb evaluate --report` measures, and the plausibility of triples that are not suspects.
+ */
+export function scoresText(run: AuditRun): string {
+  const { graph, scores } = run;
+  if (!scores) return `${SCORES_HEADER.join('\t')}\n`;
+  const key = (id: number): string => termToField(graph.terms.key(id));
+  const byOrder = Array.from(scores.triples.keys()).sort((a, b) => scores.order[a]! - scores.order[b]!);
+  const lines = [SCORES_HEADER.join('\t')];
+  for (const j of byOrder) {
+    const t = scores.triples[j]!;
+    const g = graph.g[t]!;
+    const p = scores.plausibility[j]!;
+    const l = scores.logit[j]!;
+    lines.push([scores.order[j], key(graph.s[t]!), key(graph.p[t]!), key(graph.o[t]!), g < 0 ? '' : key(g), Number.isNaN(p) ? '' : p.toFixed(6), Number.isNaN(l) ? '' : l.toFixed(4), scores.fold[j]].join('\t'));
+  }
+  return `${lines.join('\n')}\n`;
 }
 
 function assembleReport(
@@ -508,4 +564,80 @@ function reportedOptions(options: AuditGraphOptions): Record<string, unknown> {
   if (options.maxSeconds !== undefined) out.maxSeconds = options.maxSeconds;
   if (options.only) out.only = options.only.reduce((a, b) => a + b, 0);
   return out;
+}
+
+/** The steps as plumb provides them: `fit` and `filteredRanks` from the model, `checkGraph` from the checks. */
+export function defaultSteps(checkOptions: RunChecksOptions = {}): AuditSteps {
+  return {
+    fit,
+    rank: (model, graph, triples) => filteredRanks(model, graph, triples),
+    checks: async (graph, schemaGraphs, shapesGraphs, progress) => {
+      const result = await checkGraph(graph, schemaGraphs, shapesGraphs, progress, checkOptions);
+      return { findings: result.findings, checks: result.checks };
+    },
+  };
+}
+
+/** Audits a graph already in memory; see {@link AuditGraphOptions} for `only` and `trainedModel` (the gate's use). */
+export async function auditGraph(graph: Graph, options: AuditGraphOptions = {}, steps: AuditSteps = defaultSteps(options.checkOptions)): Promise<AuditReport> {
+  return (await auditGraphDetailed(graph, options, steps)).report;
+}
+
+/** What `plumb audit` takes beyond the graph files. */
+export interface AuditRunOptions extends AuditOptions {
+  /** Ontology files whose RDFS/OWL axioms apply besides those in the graph (`--schema`). */
+  schema?: readonly string[];
+  /** SHACL shapes files (`--shapes`). */
+  shapes?: readonly string[];
+  /** How to read the graph files. */
+  read?: ReadOptions;
+  /** A model saved by `plumb fit --save`: scores without fitting (in-sample for triples it trained on). */
+  modelDir?: string;
+}
+
+/** `plumb audit` as a function, with the full ranking of scored triples beside the report. */
+export async function auditDetailed(paths: readonly string[], options: AuditRunOptions = {}): Promise<AuditRun> {
+  const progress = options.progress;
+  const started = performance.now();
+  const read = options.read ?? {};
+  const data = await readGraph(paths, { ...read, ...(progress ? { progress } : {}) });
+  const side = async (files: readonly string[] | undefined, what: string): Promise<ReadResult | undefined> => {
+    if (!files || files.length === 0) return undefined;
+    if (files.includes('-')) throw new PlumbError('E_USAGE', `${what} files cannot be read from standard input`, { hint: `give the ${what} file by name` });
+    return readGraph(files, { ...(read.baseIri !== undefined ? { baseIri: read.baseIri } : {}), ...(read.strict !== undefined ? { strict: read.strict } : {}) });
+  };
+  const schemaRead = await side(options.schema, '--schema');
+  const shapesRead = await side(options.shapes, '--shapes');
+  const readSeconds = (performance.now() - started) / 1000;
+  const rejections = [...data.rejections, ...(schemaRead?.rejections ?? []), ...(shapesRead?.rejections ?? [])];
+  const graphOptions: AuditGraphOptions = {
+    ...options,
+    inputs: data.inputs,
+    accounting: data.accounting,
+    readFindings: rejections.map(rejectionFinding),
+    readSeconds,
+    schemaGraphs: schemaRead ? [schemaRead.graph] : [],
+    shapesGraphs: shapesRead ? [shapesRead.graph] : [],
+  };
+  let loaded: TrainedModel | undefined;
+  if (options.modelDir !== undefined && !options.noModel) {
+    const loadStarted = performance.now();
+    loaded = await loadModel(options.modelDir, data.graph, options.backend ? { backend: options.backend } : {});
+    graphOptions.trainedModel = loaded;
+    graphOptions.readSeconds = readSeconds + (performance.now() - loadStarted) / 1000;
+  }
+  try {
+    const run = await auditGraphDetailed(data.graph, graphOptions, defaultSteps(options.checkOptions));
+    if (schemaRead) run.report.options.schema = schemaRead.inputs;
+    if (shapesRead) run.report.options.shapes = shapesRead.inputs;
+    if (options.modelDir !== undefined) run.report.options.modelDir = options.modelDir;
+    return run;
+  } finally {
+    loaded?.dispose();
+  }
+}
+
+/** `plumb audit` as a function: reads the files, checks, fits out-of-fold, scores, ranks. */
+export async function audit(paths: readonly string[], options: AuditRunOptions = {}): Promise<AuditReport> {
+  return (await auditDetailed(paths, options)).report;
 }

@@ -5,6 +5,8 @@ import { degreeHeuristic, randomOrder, suspicionFromPlausibility } from '../scor
 import { crossFit, scorableTriples, type FitFunction, type RankFunction, type WarmStart } from '../scoring/crossfit.js';
 import { plausibility, type PlausibilityBasis } from '../scoring/plausibility.js';
 import { detectionTable, type DetectionMetrics, type DetectionTable } from './detection.js';
+import { fieldToTerm, type TruthEntry } from './corrupt.js';
+import { PlumbError } from '../errors.js';
 
 /**
  * Baselines side by side: every method ranks the same corrupted graph's scorable triples (subject and
@@ -127,4 +129,63 @@ export function formatComparison(rows: readonly ComparisonRow[]): string {
 /** The figures of one row as plain data (for `--json`). */
 export function comparisonJson(rows: readonly ComparisonRow[]): Array<{ method: DetectionMethod; seconds: number } & DetectionMetrics & { byKind: Record<string, DetectionMetrics> }> {
   return rows.map((r) => ({ method: r.method, seconds: r.seconds, ...r.table.overall, byKind: r.table.byKind }));
+}
+
+/** One row of an audit's `scores.tsv`: a scored triple's place in the ranking. */
+export interface RankedTriple {
+  order: number;
+  /** `subject\tpredicate\tobject` as term keys. */
+  key: string;
+  plausibility: number;
+}
+
+/** Reads `scores.tsv` as written by the audit (see `scoresText` in src/audit.ts). */
+export function parseScores(text: string, file: string): RankedTriple[] {
+  const out: RankedTriple[] = [];
+  const lines = text.split(/\r?\n/);
+  lines.forEach((line, i) => {
+    if (line.trim() === '' || (i === 0 && line.startsWith('order\t'))) return;
+    const c = line.split('\t');
+    const order = Number(c[0]);
+    if (c.length < 6 || !Number.isFinite(order)) {
+      throw new PlumbError('E_PARSE', 'expected a scores row: order, subject, predicate, object, graph, plausibility, …', {
+        position: { file, line: i + 1 },
+        hint: 'pass the scores.tsv an audit wrote beside its report.json',
+      });
+    }
+    out.push({ order, key: `${fieldToTerm(c[1]!)}\t${fieldToTerm(c[2]!)}\t${fieldToTerm(c[3]!)}`, plausibility: c[5] === '' ? Number.NaN : Number(c[5]) });
+  });
+  return out;
+}
+
+export interface RankingEvaluation {
+  table: DetectionTable;
+  /** Truth triples that the ranking does not hold (counted as ranked last). */
+  unranked: number;
+}
+
+/**
+ * Measures an audit's ranking against a truth file: every ranked triple is an item, ordered by its
+ * place in the ranking; a truth triple the audit did not rank still counts, tied at the bottom.
+ */
+export function evaluateRanking(ranking: readonly RankedTriple[], truth: readonly TruthEntry[]): RankingEvaluation {
+  const kindOf = new Map<string, string>();
+  for (const t of truth) kindOf.set(`${t.subject}\t${t.predicate}\t${t.object}`, t.kind);
+  const suspicion: number[] = [];
+  const kinds: Array<string | null> = [];
+  const seen = new Set<string>();
+  for (const r of ranking) {
+    suspicion.push(-r.order);
+    const kind = kindOf.get(r.key);
+    kinds.push(kind ?? null);
+    if (kind !== undefined) seen.add(r.key);
+  }
+  let unranked = 0;
+  for (const [key, kind] of kindOf) {
+    if (seen.has(key)) continue;
+    unranked++;
+    suspicion.push(Number.NEGATIVE_INFINITY);
+    kinds.push(kind);
+  }
+  return { table: detectionTable(suspicion, kinds), unranked };
 }

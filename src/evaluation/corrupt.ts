@@ -270,3 +270,28 @@ export function* nQuadsLines(graph: Graph): Generator<string> {
     yield g < 0 ? `${key(graph.s[i]!)} ${key(graph.p[i]!)} ${key(graph.o[i]!)} .\n` : `${key(graph.s[i]!)} ${key(graph.p[i]!)} ${key(graph.o[i]!)} ${key(g)} .\n`;
   }
 }
+
+const TSV_BARE = /^[^\s<>"{}|\\^`#][^\s<>"{}|\\^`]*$/;
+const TSV_ABSOLUTE = /^[A-Za-z][A-Za-z0-9+.-]*:/;
+
+/**
+ * A term as a TSV cell that plumb's TSV reader turns back into the same term: an IRI under `baseIri`
+ * with a bare local part is written bare (as the open datasets are), any other IRI in angle
+ * brackets, a literal in N-Triples form with its tabs escaped, a blank node as `_:label`.
+ */
+export function tsvCell(key: string, baseIri: string): string {
+  if (termKind(key) === TermKind.Iri && key.startsWith(baseIri)) {
+    const local = key.slice(baseIri.length);
+    if (TSV_BARE.test(local) && !TSV_ABSOLUTE.test(local) && !local.startsWith('_:')) return local;
+  }
+  return termToField(key);
+}
+
+/** The graph's triples as TSV rows (subject, predicate, object[, graph]). */
+export function* tsvLines(graph: Graph, baseIri: string): Generator<string> {
+  const cell = (id: number): string => tsvCell(graph.terms.key(id), baseIri);
+  for (let i = 0; i < graph.size; i++) {
+    const g = graph.g[i]!;
+    yield g < 0 ? `${cell(graph.s[i]!)}\t${cell(graph.p[i]!)}\t${cell(graph.o[i]!)}\n` : `${cell(graph.s[i]!)}\t${cell(graph.p[i]!)}\t${cell(graph.o[i]!)}\t${cell(g)}\n`;
+  }
+}
