@@ -181,6 +181,28 @@ export function evaluateGate(
   };
 }
 
+/**
+ * The whole decision `plumb gate` makes on the incoming findings: suppressions first, then the
+ * thresholds (with `DEFAULT_GATE_THRESHOLDS` under those given), then the exit code.
+ */
+export function decideGate(
+  findings: readonly Finding[],
+  suppressions: readonly Suppression[],
+  thresholds: GateThresholds,
+  today: Date,
+): SuppressionResult & { outcome: GateOutcome; exitCode: 0 | 1 } {
+  const split = applySuppressions(findings, suppressions, today);
+  const outcome = evaluateGate(split.active, { ...DEFAULT_GATE_THRESHOLDS, ...definedOnly(thresholds) }, {
+    suppressed: split.suppressed.length,
+    expiredSuppressions: split.expired.length,
+  });
+  return { ...split, outcome, exitCode: gateExitCode(outcome) };
+}
+
+function definedOnly(t: GateThresholds): GateThresholds {
+  return Object.fromEntries(Object.entries(t).filter(([, v]) => v !== undefined)) as GateThresholds;
+}
+
 /** 0 when the gate passed, 1 when a threshold was crossed (DESIGN.md's exit codes). */
 export function gateExitCode(outcome: GateOutcome): 0 | 1 {
   return outcome.passed ? 0 : 1;

@@ -8,11 +8,13 @@ import type { Finding } from '../src/findings.js';
 import {
   DEFAULT_GATE_THRESHOLDS,
   applySuppressions,
+  decideGate,
   evaluateGate,
   gateExitCode,
   isExpired,
   loadSuppressions,
   normaliseTerm,
+  type GateThresholds,
   type Suppression,
 } from '../src/gate.js';
 import { finding } from './report/make-report.js';
@@ -29,13 +31,22 @@ function suppress(f: Finding, extra: Partial<Suppression> = {}): Suppression {
 }
 
 /** The whole gate decision as `plumb gate` makes it: suppressions, then thresholds, then the exit code. */
-function gate(findings: Finding[], suppressions: Suppression[], thresholds = DEFAULT_GATE_THRESHOLDS) {
+function gate(findings: Finding[], suppressions: Suppression[], thresholds: GateThresholds = {}) {
+  const decided = decideGate(findings, suppressions, thresholds, today);
+  // decideGate is the composition of the three steps; check it against doing them by hand.
   const s = applySuppressions(findings, suppressions, today);
-  const outcome = evaluateGate(s.active, thresholds, { suppressed: s.suppressed.length, expiredSuppressions: s.expired.length });
-  return { ...s, outcome, exit: gateExitCode(outcome) };
+  const outcome = evaluateGate(s.active, { ...DEFAULT_GATE_THRESHOLDS, ...thresholds }, { suppressed: s.suppressed.length, expiredSuppressions: s.expired.length });
+  expect(decided.outcome).toEqual(outcome);
+  expect(decided.exitCode).toBe(gateExitCode(outcome));
+  return { ...decided, exit: decided.exitCode };
 }
 
 describe('the gate', () => {
+  it('lets a threshold given override the default, and passes with none crossed', () => {
+    expect(gate([error], [], { maxErrors: 1 }).exit).toBe(0);
+    expect(gate([error, error], [], { maxErrors: 1 }).outcome.crossed).toEqual(['2 errors > --max-errors 1']);
+  });
+
   it('passes clean incoming triples (exit 0)', () => {
     const g = gate([], []);
     expect(g.exit).toBe(0);
