@@ -138,3 +138,4 @@ export class TermDictionary {
     return this.keys;
   }
 }
+

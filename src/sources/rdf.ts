@@ -23,6 +23,9 @@ import type { TextBatch } from './text.js';
  * triple is the line of the token that completed it (its `.`, `;` or `,`).
  */
 
+/** No IRI holds a NUL character, so this never equals one. */
+const NO_IRI = '\u0000';
+
 type RdfFormat = 'ntriples' | 'nquads' | 'turtle' | 'trig';
 
 const N3_FORMAT: Record<RdfFormat, string> = {
@@ -132,6 +135,9 @@ class RdfReader {
   private readonly bases: string[] = [];
   private readonly prefixes = new Map<string, string>();
 
+  private lastSubject = NO_IRI;
+  private lastSubjectId = -1;
+  private readonly predicateIds = new Map<string, number>();
   /** Text from the current statement's start, so any line can be read again. */
   private readonly retained = new RetainedText();
   /** Lines the text layer already rejected; a syntax error they cause is not counted twice. */
@@ -261,8 +267,21 @@ class RdfReader {
 
   private quad(quad: N3Quad): void {
     const line = this.tokenLine;
-    const s = this.termId(quad.subject);
-    const p = this.termId(quad.predicate);
+    // Dumps group triples by subject and use few predicates: both skip most dictionary lookups.
+    const subject = quad.subject;
+    let s: number;
+    if (subject.termType === 'NamedNode' && subject.value === this.lastSubject) s = this.lastSubjectId;
+    else {
+      s = this.termId(subject);
+      this.lastSubject = subject.termType === 'NamedNode' ? subject.value : NO_IRI;
+      this.lastSubjectId = s;
+    }
+    const predicate = quad.predicate;
+    let p = this.predicateIds.get(predicate.value);
+    if (p === undefined) {
+      p = this.termId(predicate);
+      if (predicate.termType === 'NamedNode' && this.predicateIds.size < 4096) this.predicateIds.set(this.terms.key(p), p);
+    }
     const o = this.termId(quad.object);
     const g = quad.graph.termType === 'DefaultGraph' ? -1 : this.termId(quad.graph);
     if (s < 0 || o < 0 || g < -1) {
@@ -390,3 +409,5 @@ function describe(error: N3Error, lineText: string): { column: number; reason: s
   else if (snippet.startsWith('"') || snippet.startsWith("'")) reason = `unterminated or malformed string: ${reason}`;
   return { column: at >= 0 ? at + 1 : 1, reason };
 }
+
+
