@@ -333,7 +333,8 @@ export const REPORT_SCRIPT = String.raw`
     var ths = document.querySelectorAll('#findings-table th[data-key]');
     for (var k = 0; k < ths.length; k++) {
       var th = ths[k];
-      th.setAttribute('aria-sort', th.getAttribute('data-key') === state.key && state.key !== 'order' ? (state.dir === 1 ? 'ascending' : 'descending') : 'none');
+      var sorted = th.getAttribute('data-key') === state.key && !(state.key === 'order' && state.dir === 1);
+      th.setAttribute('aria-sort', sorted ? (state.dir === 1 ? 'ascending' : 'descending') : 'none');
     }
   }
   function update(resetPage) {

@@ -138,8 +138,12 @@ export function writeSarif(report: AuditReport): string {
   // Results go one per line, like the findings in report.json: a 100,000-result log stays a size
   // that tools load, and two logs diff line by line.
   const runText = JSON.stringify(run, null, 2).replace(/\n/g, '\n    ');
+  // One stringify for all results, then a break before each `{"ruleId":` after `},`: that sequence
+  // cannot occur inside a JSON string, so the breaks fall between values.
   const resultsText =
-    results.length === 0 ? '[]' : `[\n${results.map((r) => `        ${JSON.stringify(r)}`).join(',\n')}\n      ]`;
+    results.length === 0
+      ? '[]'
+      : `[\n        ${JSON.stringify(results).slice(1, -1).replace(/\},\{"ruleId":/g, '},\n        {"ruleId":')}\n      ]`;
   const runWithResults = `${runText.slice(0, runText.lastIndexOf('\n'))},\n      "results": ${resultsText}\n    }`;
   return `{\n  "$schema": ${JSON.stringify(SARIF_SCHEMA_URI)},\n  "version": "2.1.0",\n  "runs": [\n    ${runWithResults}\n  ]\n}\n`;
 }

@@ -43,6 +43,14 @@ describe('report.json', () => {
     expect(text).not.toContain('"triple"');
   });
 
+  it('stays valid JSON when evidence holds objects that look like findings', () => {
+    const evidence = { related: [{ kind: 'violation', check: 'x' }, { kind: 'suspect' }], note: '},{"kind":' };
+    const report = makeReport([finding({ evidence }), finding()]);
+    const parsed = JSON.parse(writeJson(report)) as { findings: { evidence: unknown }[] };
+    expect(parsed.findings[0]!.evidence).toEqual(evidence);
+    expect(validateReport(parsed)).toEqual([]);
+  });
+
   it('keeps strings exactly, however odd', () => {
     const odd = '"<script>alert(1)</script> \u2028 \u202e עברית e\u0301"@he';
     const report = makeReport([finding({ object: odd, message: 'line1\nline2\u0000' })]);
