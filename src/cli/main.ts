@@ -3,9 +3,10 @@ import { PlumbError, formatPosition } from '../errors.js';
 import type { RegisterCommand } from './commands.js';
 import { processIO, type CliIO, type ExitCode } from './io.js';
 import { VERSION } from '../version.js';
+import { registerStats } from './stats.js';
 
 /** Every command, in the order `--help` lists them. Add a command by adding its file here. */
-const COMMANDS: RegisterCommand[] = [];
+const COMMANDS: RegisterCommand[] = [registerStats];
 
 export function buildProgram(io: CliIO, setExitCode: (code: ExitCode) => void): Command {
   const program = new Command('plumb')
