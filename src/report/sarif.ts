@@ -54,6 +54,7 @@ function result(
   f: Finding,
   ruleIndex: Map<string, number>,
   artifactIndex: Map<string, number>,
+  uris: Map<string, string>,
   suppression?: { reason: string; expires?: string },
 ): Record<string, unknown> {
   const out: Record<string, unknown> = {
@@ -68,7 +69,9 @@ function result(
     // SARIF lines and columns are 1-based (§3.30.5, §3.30.6); a reader that could not tell gives 0.
     if (f.source.line >= 1) region.startLine = f.source.line;
     if (f.source.line >= 1 && f.source.column !== undefined && f.source.column >= 1) region.startColumn = f.source.column;
-    const artifactLocation: Record<string, unknown> = { uri: pathToUri(f.source.file) };
+    let uri = uris.get(f.source.file);
+    if (uri === undefined) uris.set(f.source.file, (uri = pathToUri(f.source.file)));
+    const artifactLocation: Record<string, unknown> = { uri };
     const index = artifactIndex.get(f.source.file);
     if (index !== undefined) artifactLocation.index = index;
     const physicalLocation: Record<string, unknown> = { artifactLocation };
@@ -104,9 +107,10 @@ export function writeSarif(report: AuditReport): string {
     hashes: { 'sha-256': input.sha256 },
   }));
   const artifactIndex = new Map(report.inputs.map((input, i) => [input.path, i]));
+  const uris = new Map<string, string>();
   const results = [
-    ...report.findings.map((f) => result(f, ruleIndex, artifactIndex)),
-    ...(report.suppressed ?? []).map((s) => result(s.finding, ruleIndex, artifactIndex, s.suppression)),
+    ...report.findings.map((f) => result(f, ruleIndex, artifactIndex, uris)),
+    ...(report.suppressed ?? []).map((s) => result(s.finding, ruleIndex, artifactIndex, uris, s.suppression)),
   ];
   const invocation: Record<string, unknown> = {
     executionSuccessful: true,
