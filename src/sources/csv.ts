@@ -1,4 +1,4 @@
-import { Parser, type Options as CsvOptions } from 'csv-parse';
+import { CsvError, Parser, type Options as CsvOptions } from 'csv-parse';
 import { PlumbError } from '../errors.js';
 import { literalKey, RDF, XSD } from '../graph/terms.js';
 import { RetainedText } from './retained.js';
@@ -159,12 +159,12 @@ class CsvReader {
 
   private write(text: string): void {
     if (this.failure !== undefined || text.length === 0) return;
-    this.failure = this.api.parse(Buffer.from(text), false, noop, noop) ?? undefined;
+    this.failure = syntaxOnly(this.api.parse(Buffer.from(text), false, noop, noop));
   }
 
   private finish(): void {
     if (this.failure !== undefined) return;
-    this.failure = this.api.parse(undefined, true, noop, noop) ?? undefined;
+    this.failure = syntaxOnly(this.api.parse(undefined, true, noop, noop));
   }
 
   private settle(): void {
@@ -356,3 +356,9 @@ function percentEncode(text: string): string {
 }
 
 function noop(): void {}
+
+/** csv-parse hands back what a record callback throws; only its own syntax errors are the reader's to handle. */
+function syntaxOnly(error: (Error & { code?: string; lines?: number }) | undefined): (Error & { code?: string; lines?: number }) | undefined {
+  if (error === undefined || error instanceof CsvError) return error;
+  throw error;
+}

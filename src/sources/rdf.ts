@@ -135,6 +135,10 @@ class RdfReader {
   private readonly bases: string[] = [];
   private readonly prefixes = new Map<string, string>();
 
+  /** Line-based formats: the last quad read, held until its statement's "." (0: none). */
+  private readonly pending = new Int32Array(4);
+  private pendingLine = 0;
+  private previousType = '';
   private lastSubject = NO_IRI;
   private lastSubjectId = -1;
   private readonly predicateIds = new Map<string, number>();
@@ -183,9 +187,11 @@ class RdfReader {
 
   end(): void {
     this.ended = true;
-    if (this.skipUntil !== null) return;
-    this.feed.end();
-    this.settle();
+    if (this.skipUntil === null) {
+      this.feed.end();
+      this.settle();
+    }
+    if (this.pendingLine !== 0 && this.previousType === '.') this.commit();
   }
 
   /** A fresh parser whose first line is absolute line `line`. */
@@ -203,6 +209,7 @@ class RdfReader {
     this.sparqlDirective = false;
     this.tokenLine = line;
     this.startLine = line;
+    this.previousType = '';
     this.parser.parse(this.feed, {
       onQuad: (error, quad) => (error ? this.fail(error) : quad && this.quad(quad)),
       onPrefix: (prefix, iri) => this.prefixes.set(prefix, iri.value),
@@ -224,6 +231,8 @@ class RdfReader {
   private token(token: N3Token): void {
     const line = this.lineOffset + token.line;
     this.tokenLine = line;
+    if (this.pendingLine !== 0 && this.previousType === '.') this.commit();
+    this.previousType = token.type;
     switch (token.type) {
       case '.':
         this.open = false;
@@ -289,7 +298,21 @@ class RdfReader {
       this.sink.reject(line, 1, 'a triple term (RDF 1.2) cannot be held in the graph; plumb reads RDF 1.1 triples', text);
       return;
     }
-    this.sink.add(s, p, o, g, line);
+    if (this.lineMode) {
+      // n3 emits a quad before it has seen the final "." (N-Quads: as soon as the graph name is read),
+      // so a line-based statement counts only once its line proves well-formed.
+      this.pending[0] = s;
+      this.pending[1] = p;
+      this.pending[2] = o;
+      this.pending[3] = g;
+      this.pendingLine = line;
+    } else this.sink.add(s, p, o, g, line);
+  }
+
+  private commit(): void {
+    const q = this.pending;
+    this.sink.add(q[0]!, q[1]!, q[2]!, q[3]!, this.pendingLine);
+    this.pendingLine = 0;
   }
 
   /** The dictionary id of a term; -2 for a triple term, which the store cannot hold. */
@@ -309,6 +332,8 @@ class RdfReader {
   }
 
   private fail(error: N3Error): void {
+    // A quad not yet committed belongs to the statement that just failed.
+    this.pendingLine = 0;
     const relative = error.context?.token?.line ?? error.context?.line;
     const line = relative === undefined ? this.tokenLine : this.lineOffset + relative;
     this.failure ??= { error, line };
@@ -324,9 +349,17 @@ class RdfReader {
     }
   }
 
+  /** Where the failed statement began: the open statement's first line, or the error's line. */
+  private failedStart(failure: Failure): number {
+    // The token that closes a statement ends it before the parser can object to it.
+    const closing = failure.error.context?.token?.type;
+    const open = this.open || closing === '.' || closing === '}';
+    return open ? Math.min(this.startLine, failure.line) : failure.line;
+  }
+
   private recoverLine(failure: Failure): void {
     const errorLine = failure.line;
-    const startLine = this.open ? Math.min(this.startLine, errorLine) : errorLine;
+    const startLine = this.failedStart(failure);
     const text = this.lineText(startLine);
     if (!this.problemIn(startLine, errorLine)) {
       // A statement cut short at its line's end: point just past the line's content.
@@ -339,7 +372,7 @@ class RdfReader {
 
   private recoverStatement(failure: Failure): void {
     const errorLine = failure.line;
-    const startLine = this.open ? Math.min(this.startLine, errorLine) : errorLine;
+    const startLine = this.failedStart(failure);
     const closer: '.' | '}' = this.format === 'trig' && this.depth > 0 ? '}' : '.';
     const text = this.lineText(errorLine);
     if (!this.problemIn(startLine, errorLine)) {
@@ -347,7 +380,8 @@ class RdfReader {
       const where = startLine < errorLine ? ` (in the statement from line ${startLine})` : '';
       this.sink.reject(errorLine, column, `${reason}${where}`, text);
     }
-    const end = this.findCloser(errorLine, closer);
+    // A block's closing brace that the parser refused still closes the block.
+    const end = failure.error.context?.token?.type === '}' ? errorLine : this.findCloser(errorLine, closer);
     if (end === -1) this.skipUntil = closer;
     else this.restartAt(end + 1);
   }
