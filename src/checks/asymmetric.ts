@@ -24,34 +24,35 @@ export const asymmetric: Check = {
     const { graph, schema } = ctx;
     const keys = graph.terms.allKeys();
     const findings: Finding[] = [];
-    const n = graph.terms.size;
+    const inSet = new Uint8Array(graph.terms.size);
     for (const [property, declared] of schema.withCharacteristic('asymmetric')) {
-      const pairs = new Map<number, number>();
-      const triples: number[] = [];
-      for (const q of schema.subProperties(property)) {
-        for (const t of row(graph.byPredicate, q)) {
-          triples.push(t);
-          const key = graph.s[t]! * n + graph.o[t]!;
-          if (!pairs.has(key)) pairs.set(key, t);
-        }
-      }
-      triples.sort((a, b) => a - b);
+      const subs = schema.subProperties(property).filter((q) => q < graph.terms.size);
+      for (const q of subs) inSet[q] = 1;
       const declaredAt = at(declared);
       const evidence = { property: schema.key(property), ...(declaredAt ? { declaredAt } : {}) };
-      for (const t of triples) {
-        const s = graph.s[t]!;
-        const o = graph.o[t]!;
-        const data = { a: shortName(keys[s]!), b: shortName(keys[o]!), predicate: shortName(schema.key(property)) };
-        if (s === o) {
-          findings.push(ctx.finding({ messageId: 'reflexive', triple: t, data, evidence }));
-          continue;
-        }
-        const reverse = pairs.get(o * n + s);
-        // Report each pair once, on its earlier triple.
-        if (reverse !== undefined && reverse > t && pairs.get(s * n + o) === t) {
-          findings.push(ctx.finding({ messageId: 'both', triple: t, data, evidence: compact({ ...evidence, reverseTriple: reverse, reverseSource: at(tripleSource(graph, reverse)) }) }));
+      for (const q of subs) {
+        for (const t of row(graph.byPredicate, q)) {
+          const s = graph.s[t]!;
+          const o = graph.o[t]!;
+          const data = { a: shortName(keys[s]!), b: shortName(keys[o]!), predicate: shortName(schema.key(property)) };
+          if (s === o) {
+            findings.push(ctx.finding({ messageId: 'reflexive', triple: t, data, evidence }));
+            continue;
+          }
+          // The reverse link among the object's own triples; each pair is reported once, on its earlier triple.
+          let reverse = -1;
+          for (const u of row(graph.bySubject, o)) {
+            if (inSet[graph.p[u]!] === 1 && graph.o[u] === s) {
+              reverse = u;
+              break;
+            }
+          }
+          if (reverse > t) {
+            findings.push(ctx.finding({ messageId: 'both', triple: t, data, evidence: compact({ ...evidence, reverseTriple: reverse, reverseSource: at(tripleSource(graph, reverse)) }) }));
+          }
         }
       }
+      for (const q of subs) inSet[q] = 0;
     }
     return findings;
   },

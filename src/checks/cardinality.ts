@@ -22,17 +22,27 @@ export function checkAtMostOne(ctx: CheckContext, characteristic: 'functional' |
   const keys = graph.terms.allKeys();
   const [groupBy, valueOf] = characteristic === 'functional' ? [graph.s, graph.o] : [graph.o, graph.s];
   const findings: Finding[] = [];
+  // The first triple seen per entity; a Map only for entities with a second, different value.
+  const first = new Int32Array(graph.terms.size).fill(-1);
   for (const [property, declared] of schema.withCharacteristic(characteristic)) {
     const groups = new Map<number, number[]>();
+    const touched: number[] = [];
     for (const q of schema.subProperties(property)) {
       if (q >= graph.terms.size) continue;
       for (const t of row(graph.byPredicate, q)) {
         const e = groupBy[t]!;
+        const f = first[e]!;
+        if (f < 0) {
+          first[e] = t;
+          touched.push(e);
+          continue;
+        }
         const list = groups.get(e);
         if (list) list.push(t);
-        else groups.set(e, [t]);
+        else if (valueOf[f] !== valueOf[t]) groups.set(e, [f, t]);
       }
     }
+    for (const e of touched) first[e] = -1;
     for (const [entity, triples] of groups) {
       if (triples.length < 2) continue;
       triples.sort((a, b) => a - b);

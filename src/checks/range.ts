@@ -4,7 +4,7 @@ import { datatypeConforms } from '../schema/xsd.js';
 import { shortName } from '../schema/vocab.js';
 import { checkTypeRequirement } from './type-requirement.js';
 import type { Check } from './types.js';
-import { at, dataPredicates, datatypeOfKey, isLiteralKey } from './util.js';
+import { at, dataPredicates, literalDatatypes } from './util.js';
 
 /**
  * rdfs:range (rule rdfs3), read as a requirement on the object: its classes when the range is a
@@ -30,6 +30,7 @@ export const range: Check = {
   run(ctx) {
     const { graph, schema } = ctx;
     const keys = graph.terms.allKeys();
+    const literals = literalDatatypes(graph);
     const findings: Finding[] = [];
     for (const p of dataPredicates(graph)) {
       const ranges = schema.rangesOf(p);
@@ -37,15 +38,18 @@ export const range: Check = {
       const classes = ranges.filter((r) => !schema.isDatatype(r));
       const datatypes = ranges.filter((r) => schema.isDatatype(r));
       const resourceTriples: number[] = [];
+      // The datatypes that fail, per literal datatype index (computed once each).
+      const failedBy = new Map<number, number[]>();
       for (const t of row(graph.byPredicate, p)) {
-        const object = keys[graph.o[t]!]!;
-        if (!isLiteralKey(object)) {
+        const dt = literals.of[graph.o[t]!]!;
+        if (dt < 0) {
           if (classes.length > 0) resourceTriples.push(t);
           continue;
         }
         if (datatypes.length === 0) continue;
-        const actual = datatypeOfKey(object);
-        const failed = datatypes.filter((d) => !datatypeConforms(actual, schema.key(d)));
+        const actual = literals.names[dt]!;
+        let failed = failedBy.get(dt);
+        if (!failed) failedBy.set(dt, (failed = datatypes.filter((d) => !datatypeConforms(actual, schema.key(d)))));
         if (failed.length === 0) continue;
         const expected = failed.map((d) => schema.key(d));
         const via = schema.declaringProperty('range', p, failed[0]!);

@@ -64,12 +64,17 @@ export const shacl: Check = {
 class Validator {
   private readonly keys: readonly string[];
   private readonly idCache = new Map<string, number>();
+  /** Per value component, the verdict on each value term seen: values repeat a lot (numbers, codes, classes). */
+  private readonly verdicts = new Map<Constraint, Map<number, boolean>>();
+
+  private readonly hasNamedGraphs: boolean;
 
   constructor(
     private readonly ctx: CheckContext,
     private readonly findings: Finding[],
   ) {
     this.keys = ctx.graph.terms.allKeys();
+    this.hasNamedGraphs = ctx.graph.g.some((g) => g >= 0);
   }
 
   /** SHACL §2.1.3: the union of the shape's targets, deduplicated, in term order. */
@@ -111,9 +116,13 @@ class Validator {
       for (const f of focus) this.property(shape, f);
       return;
     }
-    for (const f of focus) {
-      const self: Value[] = [{ ...f, triple: -1 }];
-      for (const c of shape.constraints) this.constraint(shape, c, f, self);
+    if (shape.constraints.length > 0) {
+      for (const f of focus) {
+        // A node shape's value node is the focus node itself.
+        this.ids[0] = f.id;
+        this.triples[0] = -1;
+        for (const c of shape.constraints) this.constraint(shape, c, f, 1);
+      }
     }
     for (const ps of shape.properties) {
       if (ps.deactivated) continue;
@@ -121,28 +130,45 @@ class Validator {
     }
   }
 
-  /** SHACL §2.3.1: the value nodes of a predicate path, or of its inverse. */
-  private values(shape: Shape, focus: Node): Value[] {
+  /** Value nodes of the current focus node, in reused buffers: term ids and the triples that link them. */
+  private ids = new Int32Array(64);
+  private triples = new Int32Array(64);
+
+  /** SHACL §2.3.1: fills the buffers with the value nodes of a predicate path, or of its inverse; returns how many. */
+  private values(shape: Shape, focus: Node): number {
     const { graph } = this.ctx;
     const path = shape.path!;
     const p = this.dataId(path.predicate);
-    if (focus.id < 0 || p < 0) return [];
-    const out: Value[] = [];
-    const seen = new Set<number>();
-    const [index, other] = path.inverse ? [graph.byObject, graph.s] : [graph.bySubject, graph.o];
-    for (const t of row(index, focus.id)) {
-      if (graph.p[t] !== p) continue;
+    if (focus.id < 0 || p < 0) return 0;
+    const index = path.inverse ? graph.byObject : graph.bySubject;
+    const other = path.inverse ? graph.s : graph.o;
+    const P = graph.p;
+    const rows = index.triples;
+    let n = 0;
+    for (let i = index.offsets[focus.id]!, end = index.offsets[focus.id + 1]!; i < end; i++) {
+      const t = rows[i]!;
+      if (P[t] !== p) continue;
       const v = other[t]!;
-      if (seen.has(v)) continue; // the same value in two named graphs
-      seen.add(v);
-      out.push({ id: v, key: this.keys[v]!, triple: t });
+      if (this.hasNamedGraphs && this.ids.subarray(0, n).includes(v)) continue; // the same value in two named graphs
+      if (n === this.ids.length) this.grow();
+      this.ids[n] = v;
+      this.triples[n++] = t;
     }
-    return out;
+    return n;
+  }
+
+  private grow(): void {
+    const ids = new Int32Array(this.ids.length * 2);
+    ids.set(this.ids);
+    const triples = new Int32Array(this.triples.length * 2);
+    triples.set(this.triples);
+    this.ids = ids;
+    this.triples = triples;
   }
 
   private property(shape: Shape, focus: Node): void {
-    const values = this.values(shape, focus);
-    for (const c of shape.constraints) this.constraint(shape, c, focus, values);
+    const n = this.values(shape, focus);
+    for (const c of shape.constraints) this.constraint(shape, c, focus, n);
   }
 
   private dataId(key: string): number {
@@ -154,19 +180,42 @@ class Validator {
     return id;
   }
 
-  private constraint(shape: Shape, c: Constraint, focus: Node, values: readonly Value[]): void {
+  /** Value `i` of the buffers as a node (the focus node's key when it is not in the data). */
+  private value(i: number, focus: Node): Value {
+    const id = this.ids[i]!;
+    return { id, key: id < 0 ? focus.key : this.keys[id]!, triple: this.triples[i]! };
+  }
+
+  private constraint(shape: Shape, c: Constraint, focus: Node, n: number): void {
     switch (c.component) {
       case 'minCount':
-        if (values.length < c.value) this.report(shape, c, focus, undefined, { count: values.length, expected: c.value });
+        if (n < c.value) this.report(shape, c, focus, undefined, { count: n, expected: c.value });
         return;
       case 'maxCount':
-        if (values.length > c.value) this.report(shape, c, focus, undefined, { count: values.length, expected: c.value }, values[c.value]!.triple);
+        if (n > c.value) this.report(shape, c, focus, undefined, { count: n, expected: c.value }, this.triples[c.value]!);
         return;
-      case 'hasValue':
-        if (!values.some((v) => v.key === c.value)) this.report(shape, c, focus, undefined, { expected: shortName(c.value) });
+      case 'hasValue': {
+        const want = this.dataId(c.value);
+        let found = false;
+        for (let i = 0; i < n && !found; i++) found = this.ids[i]! >= 0 ? this.ids[i] === want : focus.key === c.value;
+        if (!found) this.report(shape, c, focus, undefined, { expected: shortName(c.value) });
         return;
-      default:
-        for (const v of values) if (!this.conforms(c, v)) this.report(shape, c, focus, v, { expected: expectedText(c) });
+      }
+      default: {
+        let seen = this.verdicts.get(c);
+        if (!seen) this.verdicts.set(c, (seen = new Map()));
+        for (let i = 0; i < n; i++) {
+          const id = this.ids[i]!;
+          // sh:class depends on the value's type set, everything else on the term alone.
+          const key = id < 0 ? -1 : c.component === 'class' ? -2 - this.ctx.schema.typeSetIndex(id) : id;
+          let ok = key === -1 ? undefined : seen.get(key);
+          if (ok === undefined) {
+            ok = this.conforms(c, this.value(i, focus));
+            if (key !== -1) seen.set(key, ok);
+          }
+          if (!ok) this.report(shape, c, focus, this.value(i, focus), { expected: expectedText(c) });
+        }
+      }
     }
   }
 

@@ -50,3 +50,36 @@ export function compact(record: Record<string, unknown>): Record<string, unknown
   for (const [k, v] of Object.entries(record)) if (v !== undefined) out[k] = v;
   return out;
 }
+
+/** Each literal term's datatype as a small index into `names`; -1 for IRIs and blank nodes. Built once per graph. */
+export interface LiteralDatatypes {
+  of: Int32Array;
+  names: string[];
+}
+
+const datatypeCache = new WeakMap<Graph, LiteralDatatypes>();
+
+export function literalDatatypes(graph: Graph): LiteralDatatypes {
+  let cached = datatypeCache.get(graph);
+  if (!cached) {
+    const keys = graph.terms.allKeys();
+    const of = new Int32Array(graph.terms.size).fill(-1);
+    const names: string[] = [];
+    const index = new Map<string, number>();
+    for (let t = 0; t < keys.length; t++) {
+      const key = keys[t]!;
+      if (key.charCodeAt(0) !== 34) continue;
+      const dt = datatypeOfKey(key);
+      let i = index.get(dt);
+      if (i === undefined) {
+        i = names.length;
+        index.set(dt, i);
+        names.push(dt);
+      }
+      of[t] = i;
+    }
+    cached = { of, names };
+    datatypeCache.set(graph, cached);
+  }
+  return cached;
+}

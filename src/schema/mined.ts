@@ -185,26 +185,34 @@ export function mineCardinality(graph: Graph, schema: Schema, options: MinedOpti
     const k = keys[term]!;
     return k.charCodeAt(0) === 34 && k.charCodeAt(k.length - 1) !== 34 && !k.endsWith('>');
   };
+  // The first triple per entity, reused across predicates (reset through `touched`).
+  const first = new Int32Array(graph.terms.size).fill(-1);
+  const langLiteral = new Int8Array(graph.terms.size); // 0 unknown, 1 yes, 2 no
   for (let p = 0; p < graph.terms.size; p++) {
     const triples = row(graph.byPredicate, p);
     if (triples.length < options.minSupport || p === schema.typePredicate || isSchemaVocabulary(keys[p]!)) continue;
     for (const direction of ['out', 'in'] as const) {
       if (skip(p, direction)) continue;
       const [from, to] = direction === 'out' ? [graph.s, graph.o] : [graph.o, graph.s];
-      const first = new Map<number, number>();
+      const touched: number[] = [];
       const more = new Map<number, number[]>();
       for (const t of triples) {
-        if (isLangLiteral(graph.o[t]!)) continue;
+        const o = graph.o[t]!;
+        if (langLiteral[o] === 0) langLiteral[o] = isLangLiteral(o) ? 1 : 2;
+        if (langLiteral[o] === 1) continue;
         const e = from[t]!;
-        const f = first.get(e);
-        if (f === undefined) first.set(e, t);
-        else if (to[f] !== to[t]) {
+        const f = first[e]!;
+        if (f < 0) {
+          first[e] = t;
+          touched.push(e);
+        } else if (to[f] !== to[t]) {
           const list = more.get(e);
           if (list) list.push(t);
           else more.set(e, [f, t]);
         }
       }
-      const support = first.size;
+      for (const e of touched) first[e] = -1;
+      const support = touched.length;
       if (support < options.minSupport) continue;
       const single = support - more.size;
       const confidence = single / support;
