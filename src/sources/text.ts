@@ -86,7 +86,8 @@ export function clip(text: string, max = 200): string {
 function lastBreak(text: string): number {
   const lf = text.lastIndexOf('\n');
   let cr = text.lastIndexOf('\r');
-  if (cr === text.length - 1) cr = text.lastIndexOf('\r', cr - 1);
+  // lastIndexOf clamps a negative start to 0, so a CR at 0 needs its own test.
+  if (cr === text.length - 1) cr = cr === 0 ? -1 : text.lastIndexOf('\r', cr - 1);
   return Math.max(lf, cr);
 }
 

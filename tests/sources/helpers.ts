@@ -34,12 +34,16 @@ export function countsAddUp(result: ReadResult): boolean {
   return a.read === a.accepted + a.duplicates + a.rejected && a.read === perFile && a.rejected === result.rejections.length;
 }
 
-/** Splits a string into pieces of 1 or 2 characters, alternating. */
+/**
+ * Splits a string into pieces of 1 or 2 characters, alternating (a surrogate pair is one character:
+ * text arrives as bytes, and {@link tinyByteChunks} cuts characters apart).
+ */
 export function tinyChunks(text: string): string[] {
+  const chars = Array.from(text);
   const out: string[] = [];
-  for (let i = 0, k = 0; i < text.length; k++) {
+  for (let i = 0, k = 0; i < chars.length; k++) {
     const n = k % 2 === 0 ? 1 : 2;
-    out.push(text.slice(i, i + n));
+    out.push(chars.slice(i, i + n).join(''));
     i += n;
   }
   return out;
