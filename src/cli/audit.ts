@@ -1,6 +1,6 @@
 import { mkdir } from 'node:fs/promises';
 import { join } from 'node:path';
-import { Option, type Command } from 'commander';
+import { Command, Option } from 'commander';
 import { AUDIT_DEFAULTS, auditDetailed, scoresText, SCORES_FILE, type AuditRun, type AuditRunOptions } from '../audit.js';
 import { CHECK_IDS } from '../checks/index.js';
 import { PlumbError, usageError } from '../errors.js';
@@ -9,7 +9,7 @@ import { createProgressSink, formatTerminalSummary, parseFormats, writeFileAtomi
 import { PLAUSIBILITY_BASES, type PlausibilityBasis } from '../scoring/plausibility.js';
 import type { RegisterCommand } from './commands.js';
 import { isInteractive, type CliIO } from './io.js';
-import { addReadOptions, toReadOptions } from './read-options.js';
+import { addReadOptions, inputPaths, toReadOptions } from './read-options.js';
 
 interface AuditFlags {
   schema?: string[];
@@ -39,6 +39,19 @@ interface AuditFlags {
   backend?: 'auto' | 'wasm' | 'cpu' | 'tensorflow';
   timeBudget?: string;
   summaryTop?: string;
+  inputFormat?: string;
+}
+
+/**
+ * The shared reading flags, except that `--format` names the report formats here (as for every
+ * command that writes reports), so the input format is `--input-format`.
+ */
+export function addAuditReadOptions(command: Command): void {
+  const scratch = addReadOptions(new Command('scratch'));
+  for (const option of scratch.options) {
+    if (option.long === '--format') command.option('--input-format <format>', option.description);
+    else command.addOption(option);
+  }
 }
 
 const HELP = `
@@ -100,7 +113,7 @@ export function auditOptions(flags: AuditFlags, io: CliIO): AuditRunOptions {
     basis: flags.basis,
     warmStart: flags.warmStart,
     checks: flags.checks,
-    read: toReadOptions(flags as unknown as Record<string, unknown>, io),
+    read: toReadOptions({ ...(flags as unknown as Record<string, unknown>), format: flags.inputFormat }, io),
   };
   const model = modelFlags(flags);
   if (Object.keys(model).length > 0) options.model = model;
@@ -128,6 +141,11 @@ export async function writeAuditOutputs(run: AuditRun, outDir: string, formats: 
     written.push(path);
   }
   return written;
+}
+
+/** An output path relative to the CLI's working directory. */
+export function outPath(path: string, io: CliIO): string {
+  return inputPaths([path], io)[0]!;
 }
 
 export const registerAudit: RegisterCommand = (program, { io, setExitCode }) => {
@@ -167,7 +185,7 @@ export const registerAudit: RegisterCommand = (program, { io, setExitCode }) => 
     .addOption(new Option('--backend <backend>', 'TensorFlow.js backend').choices(['auto', 'tensorflow', 'wasm', 'cpu']))
     .option('--time-budget <seconds>', 'seconds for all model fits together (each fold gets its share)')
     .option('--summary-top <n>', 'findings listed in the terminal summary (default 10)');
-  addReadOptions(command);
+  addAuditReadOptions(command);
   command.addHelpText('after', HELP);
   command.action(async (files: string[], flags: AuditFlags) => {
     const options = auditOptions(flags, io);
@@ -176,12 +194,12 @@ export const registerAudit: RegisterCommand = (program, { io, setExitCode }) => 
     const progress = createProgressSink(io);
     let run: AuditRun;
     try {
-      run = await auditDetailed(files, { ...options, progress: progress.sink });
+      run = await auditDetailed(inputPaths(files, io), { ...options, progress: progress.sink });
     } finally {
       progress.stop();
     }
     const started = performance.now();
-    const written = await writeAuditOutputs(run, flags.out, flags.format);
+    const written = await writeAuditOutputs(run, outPath(flags.out, io), flags.format);
     run.report.durations.report = Math.round(performance.now() - started) / 1000;
     const summaryTop = flags.summaryTop === undefined ? undefined : integer('--summary-top', flags.summaryTop, 0, 10_000);
     io.stdout.write(formatTerminalSummary(run.report, { color: isInteractive(io), ...(summaryTop !== undefined ? { top: summaryTop } : {}) }));

@@ -8,7 +8,7 @@ import { CORRUPTION_KINDS, corruptGraph, hasNamedGraphs, nQuadsLines, truthText,
 import type { Graph } from '../graph/store.js';
 import { DEFAULT_BASE_IRI, readGraph } from '../sources/index.js';
 import type { RegisterCommand } from './commands.js';
-import { addReadOptions, toReadOptions } from './read-options.js';
+import { addReadOptions, inputPaths, toReadOptions } from './read-options.js';
 import { writeFileAtomic } from '../report/index.js';
 
 /** `plumb corrupt`: a copy of the graph with injected errors, and the truth file listing them. */
@@ -80,11 +80,10 @@ export const registerCorrupt: RegisterCommand = (program: Command, { io }) => {
     const rate = parseNumber('--rate', String(opts.rate), (x) => x > 0 && x <= 1, 'give a share in (0, 1], e.g. --rate 0.05');
     const seed = parseNumber('--seed', String(opts.seed), (x) => Number.isInteger(x) && x >= 0, 'give a whole number, e.g. --seed 1');
     const kinds = parseKinds(String(opts.kind));
-    const outPath = String(opts.out);
-    const truthPath = String(opts.truth);
+    const [outPath, truthPath] = inputPaths([String(opts.out), String(opts.truth)], io) as [string, string];
     const format = outputFormat(outPath);
     const read = toReadOptions(opts, io);
-    const { graph } = await readGraph(files, read);
+    const { graph } = await readGraph(inputPaths(files, io), read);
     const corruption = corruptGraph(graph, { rate, kinds, seed });
     await writeGraph(corruption.graph, outPath, format, read.baseIri ?? DEFAULT_BASE_IRI);
     await mkdir(dirname(truthPath), { recursive: true });

@@ -12,7 +12,7 @@ import { readGraph } from '../sources/index.js';
 import { checkGraph } from '../checks/run.js';
 import type { Graph } from '../graph/store.js';
 import type { CliIO } from './io.js';
-import { toReadOptions } from './read-options.js';
+import { inputPaths, toReadOptions } from './read-options.js';
 import { parseNumber } from './corrupt.js';
 
 /**
@@ -129,12 +129,12 @@ export async function runDetectionEvaluation(options: Record<string, unknown>, i
       hint: '`--report` measures an audit you ran; `--baselines` ranks the graph with each method and compares them',
     });
   }
-  const truthPath = o.truth;
+  const truthPath = inputPaths([o.truth], io)[0]!;
   const truth = parseTruth(await readText(truthPath, 'truth file'), o.truth);
   if (truth.length === 0) throw new PlumbError('E_INPUT', `the truth file ${o.truth} lists no triple`, { hint: 'write one with `plumb corrupt --truth <file>`' });
 
   if (o.report !== undefined) {
-    const reportPath = o.report;
+    const reportPath = inputPaths([o.report], io)[0]!;
     const reportText = await readText(reportPath, 'report');
     try {
       const parsed = JSON.parse(reportText) as { format?: string };
@@ -150,7 +150,7 @@ export async function runDetectionEvaluation(options: Record<string, unknown>, i
     return true;
   }
 
-  const files = o.baselines ?? [];
+  const files = inputPaths(o.baselines ?? [], io);
   const { graph } = await readGraph(files, toReadOptions(options, io));
   const { kindOf, missing } = kindsOf(graph, truth);
   if (missing === truth.length) {
