@@ -4,15 +4,19 @@ import type { RegisterCommand } from './commands.js';
 import { processIO, type CliIO, type ExitCode } from './io.js';
 import { VERSION } from '../version.js';
 import { registerStats } from './stats.js';
+import { registerCheck } from './check.js';
+import { registerAudit } from './audit.js';
+import { registerGate } from './gate.js';
+import { registerCorrupt } from './corrupt.js';
 
 /** Every command, in the order `--help` lists them. Add a command by adding its file here. */
-const COMMANDS: RegisterCommand[] = [registerStats];
+const COMMANDS: RegisterCommand[] = [registerAudit, registerCheck, registerGate, registerStats, registerCorrupt];
 
 export function buildProgram(io: CliIO, setExitCode: (code: ExitCode) => void): Command {
   const program = new Command('plumb')
     .description(
-      'Audit an RDF knowledge graph: check it against its declared and mined constraints, rank its triples\n' +
-        'by how plausible a relational graph model finds them, and report the findings for review.',
+      'Audit an RDF knowledge graph: check it against its declared and mined constraints, rank its ' +
+        'triples by how plausible a relational graph model finds them, and report the findings for review.',
     )
     .version(VERSION, '-V, --version')
     .showHelpAfterError('(run `plumb <command> --help` for the options)')
