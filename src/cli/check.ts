@@ -4,7 +4,10 @@ import { CHECK_IDS } from '../checks/index.js';
 import { usageError } from '../errors.js';
 import { atLeast, SEVERITIES, type Severity } from '../findings.js';
 import { DEFAULT_MINED_OPTIONS } from '../schema/mined.js';
-import { createProgressSink, formatTerminalSummary } from '../report/index.js';
+import { Chalk } from 'chalk';
+import { createProgressSink } from '../report/index.js';
+import { NOT_VERDICTS_HEAD, formatCount, sourceLabel, truncate } from '../report/common.js';
+import type { AuditReport } from '../result.js';
 import { writeJson } from '../report/json.js';
 import type { RegisterCommand } from './commands.js';
 import { isInteractive } from './io.js';
@@ -67,7 +70,7 @@ export const registerCheck: RegisterCommand = (program, { io, setExitCode }) => 
     .command('check')
     .summary('run the schema, SHACL and mined checks only (no model): fast')
     .description(
-      'Check a graph against what it declares (RDFS/OWL axioms in the graph and in --schema files, SHACL shapes\n' +
+      'Check a graph against what it declares (RDFS/OWL axioms in the graph and in --schema files, SHACL shapes ' +
         'in --shapes files) and against rules mined from its own data. No model is trained.',
     )
     .argument('<files...>', 'graph files (N-Triples, N-Quads, Turtle, TriG, CSV/TSV, optionally .gz; - for stdin)')
@@ -102,7 +105,45 @@ export const registerCheck: RegisterCommand = (program, { io, setExitCode }) => 
       progress.stop();
     }
     if (flags.json) io.stdout.write(writeJson(report));
-    else io.stdout.write(formatTerminalSummary(report, { color: isInteractive(io), ...(flags.top !== undefined ? { top: flags.top } : {}) }));
+    else io.stdout.write(formatCheckSummary(report, isInteractive(io), flags.top ?? 10));
     setExitCode(report.findings.some((f) => atLeast(f.severity, flags.failOn)) ? 1 : 0);
   });
 };
+
+/**
+ * The terminal summary of a check run: counts per check and severity, then the first findings with
+ * their messages (for a violation the message says what is wrong, the triple alone does not).
+ */
+function formatCheckSummary(report: AuditReport, color: boolean, top: number): string {
+  const c = new Chalk({ level: color ? 1 : 0 });
+  const paint = (severity: Severity, text: string): string => (severity === 'error' ? c.red.bold(text) : severity === 'warning' ? c.yellow(text) : c.cyan(text));
+  const plain = (text: string): string => text.replace(/[\u0000-\u001f\u007f-\u009f\u2028\u2029]/g, ' ');
+  const a = report.accounting;
+  const sev = report.summary.bySeverity;
+  const plural = (n: number, word: string): string => `${formatCount(n)} ${word}${n === 1 ? '' : 's'}`;
+  const out = [
+    `${c.bold('plumb check')}  ${plural(report.inputs.length, 'input')}, ${formatCount(a.read)} statements read (${formatCount(a.accepted)} accepted, ${formatCount(a.duplicates)} duplicates, ${formatCount(a.rejected)} rejected)`,
+    `${c.bold(plural(report.summary.findings, 'finding'))}: ${paint('error', plural(sev.error, 'error'))}, ${paint('warning', plural(sev.warning, 'warning'))}, ${paint('note', plural(sev.note, 'note'))}`,
+  ];
+  const byCheck = new Map<string, Record<Severity, number>>();
+  for (const f of report.findings) {
+    let row = byCheck.get(f.check);
+    if (!row) byCheck.set(f.check, (row = { error: 0, warning: 0, note: 0 }));
+    row[f.severity]++;
+  }
+  const width = Math.max(0, ...[...byCheck.keys()].map((k) => k.length));
+  for (const [check, counts] of [...byCheck].sort(([x], [y]) => (x < y ? -1 : 1))) {
+    const parts = SEVERITIES.filter((s) => counts[s] > 0).map((s) => paint(s, plural(counts[s], s)));
+    out.push(`  ${check.padEnd(width)}  ${parts.join(', ')}`);
+  }
+  const shown = report.findings.slice(0, top);
+  if (shown.length > 0) out.push(c.bold(`first ${shown.length}:`));
+  for (const f of shown) {
+    const where = sourceLabel(f);
+    out.push(`  ${paint(f.severity, f.severity.padEnd(7))} ${f.check}${where ? `  ${plain(truncate(where, 120))}` : ''}`);
+    out.push(`          ${plain(truncate(f.message, 300))}`);
+  }
+  if (report.findings.length > shown.length) out.push(c.dim(`  … ${formatCount(report.findings.length - shown.length)} more: use --json, or --top`));
+  out.push(c.dim(NOT_VERDICTS_HEAD));
+  return `${out.join('\n')}\n`;
+}
