@@ -1,4 +1,5 @@
 import { DataFactory, Parser } from 'n3';
+import { PlumbError } from '../errors.js';
 import type { TermDictionary } from '../graph/terms.js';
 import { literalKey } from '../graph/terms.js';
 import type { FileSink } from './sink.js';
@@ -179,7 +180,7 @@ class RdfReader {
         this.restartAt(closer + 1);
       }
     } else {
-      this.feed.data(batch.text);
+      this.send(batch.text);
     }
     this.settle();
     this.trimRetained();
@@ -188,7 +189,7 @@ class RdfReader {
   end(): void {
     this.ended = true;
     if (this.skipUntil === null) {
-      this.feed.end();
+      this.send(null);
       this.settle();
     }
     if (this.pendingLine !== 0 && this.previousType === '.') this.commit();
@@ -217,7 +218,23 @@ class RdfReader {
     });
     const preamble = this.preamble();
     this.lineOffset = line - (preamble === '' ? 1 : 2);
-    if (preamble !== '') this.feed.data(preamble);
+    if (preamble !== '') this.send(preamble);
+  }
+
+  /** Feeds text to the parser (null: the end of the input). */
+  private send(text: string | null): void {
+    try {
+      if (text === null) this.feed.end();
+      else this.feed.data(text);
+    } catch (error) {
+      if (error instanceof PlumbError) throw error;
+      // n3 can trip over its own state right after reporting an error (e.g. an invalid IRI in a prefix
+      // declaration); what it reported first stands. Anything else becomes a rejection, not a crash.
+      if (this.failure === null) {
+        const message = error instanceof Error ? error.message : String(error);
+        this.failure = { error: new Error(`the parser failed: ${message}`), line: this.tokenLine };
+      }
+    }
   }
 
   /** The declarations in force so far, on one line, for a parser that starts mid-file. */
@@ -396,10 +413,10 @@ class RdfReader {
   private restartAt(line: number): void {
     this.start(line);
     for (const piece of this.textFrom(line)) {
-      this.feed.data(piece);
+      this.send(piece);
       if (this.failure !== null) return;
     }
-    if (this.ended) this.feed.end();
+    if (this.ended) this.send(null);
   }
 
   private textFrom(line: number): Iterable<string> {
