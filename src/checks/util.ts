@@ -1,7 +1,7 @@
 import { row, type Graph } from '../graph/store.js';
 import { RDF_LANG_STRING, XSD_STRING } from '../graph/terms.js';
 import type { Schema } from '../schema/index.js';
-import { shortName } from '../schema/vocab.js';
+import { isSchemaVocabulary, shortName } from '../schema/vocab.js';
 
 /** The datatype IRI of a literal key, read from its tail without unescaping the lexical form. */
 export function datatypeOfKey(key: string): string {
@@ -13,10 +13,23 @@ export function isLiteralKey(key: string): boolean {
   return key.charCodeAt(0) === 34;
 }
 
-/** The predicates that occur in the data graph, in id order. */
+/** Annotation properties of RDFS that describe data, kept although they live in the RDFS namespace. */
+const ANNOTATIONS = new Set(['label', 'comment', 'seeAlso', 'isDefinedBy'].map((l) => `http://www.w3.org/2000/01/rdf-schema#${l}`));
+
+/**
+ * The predicates of the data graph, in id order, without those of the RDF, RDFS, OWL and SHACL
+ * vocabularies (the graph's own schema statements: an ontology given with --schema may declare
+ * domains for rdfs:domain itself, which would flag every axiom) but with RDFS's annotation properties.
+ */
 export function* dataPredicates(graph: Graph): Generator<number> {
   const offsets = graph.byPredicate.offsets;
-  for (let p = 0; p + 1 < offsets.length; p++) if (offsets[p + 1]! > offsets[p]!) yield p;
+  const keys = graph.terms.allKeys();
+  for (let p = 0; p + 1 < offsets.length; p++) {
+    if (offsets[p + 1]! === offsets[p]!) continue;
+    const key = keys[p]!;
+    if (isSchemaVocabulary(key) && !ANNOTATIONS.has(key)) continue;
+    yield p;
+  }
 }
 
 /** Term keys of term-space ids, for evidence. */

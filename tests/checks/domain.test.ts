@@ -17,6 +17,11 @@ describe('domain', () => {
       { name: 'domain read from a --schema file', schema: ONTOLOGY, data: `\nex:a a ex:Employee ; ex:leads ex:b .` },
       { name: 'a predicate without domain', data: `${ONTOLOGY}ex:a ex:likes ex:b .` },
       { name: 'rdfs:Resource as domain requires nothing', data: `\nex:p rdfs:domain rdfs:Resource .\nex:a ex:p ex:b .` },
+      {
+        name: 'the RDFS vocabulary given as a schema does not flag the axioms themselves',
+        schema: `\nrdfs:domain rdfs:domain rdf:Property .\nrdfs:subClassOf rdfs:domain rdfs:Class .`,
+        data: `${ONTOLOGY}ex:a a ex:Person ; ex:worksFor ex:b .`,
+      },
     ],
     invalid: [
       {

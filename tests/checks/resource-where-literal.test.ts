@@ -12,6 +12,12 @@ describe('resource-where-literal', () => {
       { name: 'an IRI for a datatype range', data: `\nex:age rdfs:range xsd:integer .\nex:a ex:age ex:three .`, expect: [{ severity: 'error', object: 'ex:three', line: 3, message: /range xsd:integer/ }] },
       { name: 'a blank node for rdfs:Literal', data: `\nex:note rdfs:range rdfs:Literal .\nex:a ex:note [] .`, expect: [{ severity: 'error', line: 3 }] },
       { name: 'an IRI for an owl:DatatypeProperty', data: `\nex:age a owl:DatatypeProperty .\nex:a ex:age ex:three .`, expect: [{ line: 3, message: /owl:DatatypeProperty/ }] },
+      {
+        name: 'RDFS annotation properties are data: an IRI as rdfs:label where the schema gives it range rdfs:Literal',
+        schema: `\nrdfs:label rdfs:range rdfs:Literal .`,
+        data: `\nex:a rdfs:label ex:b .`,
+        expect: [{ line: 2 }],
+      },
       { name: 'an IRI for a range declared rdfs:Datatype', data: `\nex:Celsius a rdfs:Datatype .\nex:temp rdfs:range ex:Celsius .\nex:a ex:temp ex:hot .`, expect: [{ line: 4 }] },
     ],
   });
