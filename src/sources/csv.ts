@@ -97,6 +97,7 @@ class CsvReader {
 
   private api!: CsvApi;
   private lineOffset = 0;
+  private crlfInQuotes = 0;
   /** Absolute line on which the last complete row ended. */
   private lastEnd = 0;
   private ended = false;
@@ -155,6 +156,7 @@ class CsvReader {
   private start(line: number): void {
     this.api = (new Parser(this.options) as unknown as { api: CsvApi }).api;
     this.lineOffset = line - 1;
+    this.crlfInQuotes = 0;
   }
 
   private write(text: string): void {
@@ -171,7 +173,7 @@ class CsvReader {
     while (this.failure !== undefined) {
       const error = this.failure;
       this.failure = undefined;
-      const errorLine = this.lineOffset + (error.lines ?? 1);
+      const errorLine = this.lineOffset + (error.lines ?? 1) - this.crlfInQuotes;
       let line = errorLine;
       let resume = errorLine + 1;
       let reason: string;
@@ -208,9 +210,14 @@ class CsvReader {
   }
 
   private row(cells: string[], lastLine: number): void {
-    const end = this.lineOffset + lastLine;
     let breaks = 0;
-    for (const cell of cells) if (cell.includes('\n') || cell.includes('\r')) breaks += countBreaks(cell);
+    for (const cell of cells) {
+      if (!cell.includes('\n') && !cell.includes('\r')) continue;
+      breaks += countBreaks(cell);
+      // csv-parse counts a CRLF inside quotes as two lines; keep its count honest.
+      for (let i = cell.indexOf('\r\n'); i !== -1; i = cell.indexOf('\r\n', i + 2)) this.crlfInQuotes++;
+    }
+    const end = this.lineOffset + lastLine - this.crlfInQuotes;
     const line = end - breaks;
     this.lastEnd = end;
     if (cells.every((c) => c.trim() === '')) return;

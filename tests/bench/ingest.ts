@@ -75,12 +75,12 @@ export async function generate(path: string, triples: number): Promise<void> {
     }
     written += group;
     if (buffer.length > 1 << 16) {
-      if (!out.write(buffer)) await new Promise((resolve) => out.once('drain', resolve));
+      if (!out.write(buffer)) await new Promise<void>((resolve) => out.once('drain', () => resolve()));
       buffer = '';
     }
   }
   out.end(buffer);
-  await new Promise((resolve, reject) => out.on('finish', resolve).on('error', reject));
+  await new Promise<void>((resolve, reject) => out.on('finish', () => resolve()).on('error', reject));
 }
 
 interface Timing {
