@@ -23,6 +23,16 @@ describe('GraphBuilder', () => {
     expect(b.duplicates).toBe(6667);
   });
 
+  it('freezes into arrays of exactly the triple count, dropping the growth room', () => {
+    const b = new GraphBuilder();
+    for (let i = 0; i < 3000; i++) b.addKeys(`http://x/${i}`, 'http://x/p', `http://x/${i + 1}`);
+    const g = b.build();
+    for (const column of [g.s, g.p, g.o, g.g]) expect(column.byteLength).toBe(3000 * 4);
+    expect(g.provenance.file.byteLength).toBe(3000 * 2);
+    expect(g.provenance.line.byteLength).toBe(3000 * 4);
+    expect(g.bySubject.triples.byteLength).toBe(3000 * 4);
+  });
+
   it('indexes triples by subject, object and predicate', () => {
     const g = graphFromKeys([
       ['http://x/a', 'http://x/p', 'http://x/b'],
