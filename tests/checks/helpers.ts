@@ -61,7 +61,7 @@ export function expand(term: string): string {
   return term.startsWith('ex:') ? EX + term.slice(3) : term.startsWith('xsd:') ? XSD + term.slice(4) : term;
 }
 
-export async function load(c: Case): Promise<{ graph: Graph; schema: Schema }> {
+export async function load(c: Omit<Case, 'name'>): Promise<{ graph: Graph; schema: Schema }> {
   const graph = await turtle(c.data);
   const schemaGraphs = c.schema === undefined ? [] : [await turtle(c.schema, 'schema.ttl')];
   const shapesGraphs = c.shapes === undefined ? [] : [await turtle(c.shapes, 'shapes.ttl')];
@@ -69,7 +69,7 @@ export async function load(c: Case): Promise<{ graph: Graph; schema: Schema }> {
 }
 
 /** The findings of one check on a case. */
-export async function findingsOf(check: string, c: Case): Promise<Finding[]> {
+export async function findingsOf(check: string, c: Omit<Case, 'name'>): Promise<Finding[]> {
   const { graph, schema } = await load(c);
   return runChecks(graph, schema, { ...c.options, only: [check] });
 }
