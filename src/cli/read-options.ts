@@ -9,12 +9,24 @@ import type { CliIO } from './io.js';
  */
 export function addReadOptions(command: Command): Command {
   return command
-    .option('--format <format>', 'input format when the extension does not say: ntriples, nquads, turtle, trig, csv, tsv')
-    .option('--columns <columns>', 'CSV/TSV: subject,predicate,object[,graph] by header name, or 0,1,2 by position')
-    .option('--delimiter <char>', 'CSV/TSV: cell delimiter (default , for CSV and a tab for TSV; \\t or tab for a tab)')
+    .option(
+      '--format <format>',
+      'input format when the extension does not say: ntriples, nquads, turtle, trig, csv, tsv',
+    )
+    .option(
+      '--columns <columns>',
+      'CSV/TSV: subject,predicate,object[,graph] by header name, or 0,1,2 by position',
+    )
+    .option(
+      '--delimiter <char>',
+      'CSV/TSV: cell delimiter (default , for CSV and a tab for TSV; \\t or tab for a tab)',
+    )
     .option('--header', 'CSV/TSV: the first row is a header (default: recognised by its column names)')
     .option('--no-header', 'CSV/TSV: the first row is data')
-    .option('--base-iri <iri>', 'IRI that bare CSV/TSV cells are placed under (default urn:plumb:); base for relative IRIs in Turtle/TriG')
+    .option(
+      '--base-iri <iri>',
+      'IRI that bare CSV/TSV cells are placed under (default urn:plumb:); base for relative IRIs in Turtle/TriG',
+    )
     .option('--strict', 'stop at the first malformed statement (exit 2) instead of skipping and listing it');
 }
 

@@ -23,8 +23,13 @@ Examples:
 export const registerStats: RegisterCommand = (program: Command, { io, setExitCode }) => {
   const command = program
     .command('stats')
-    .description('profile a graph: counts, degrees, predicates, rdf:type coverage, and every rejected statement')
-    .argument('<files...>', 'graph files (N-Triples, N-Quads, Turtle, TriG, CSV, TSV; .gz too), or - for standard input')
+    .description(
+      'profile a graph: counts, degrees, predicates, rdf:type coverage, and every rejected statement',
+    )
+    .argument(
+      '<files...>',
+      'graph files (N-Triples, N-Quads, Turtle, TriG, CSV, TSV; .gz too), or - for standard input',
+    )
     .option('--json', 'print the profile as one JSON object on stdout');
   addReadOptions(command);
   command.addHelpText('after', HELP);
@@ -89,7 +94,9 @@ export function statsText(read: ReadResult, shape: GraphProfile): string {
   );
   const width = Math.max(...inputs.map((i) => i.path.length));
   for (const input of inputs) {
-    lines.push(`  ${input.path.padEnd(width)}  ${input.format.padEnd(8)} ${plural(input.statements, 'statement').padStart(20)}  ${n(input.bytes)} bytes`);
+    lines.push(
+      `  ${input.path.padEnd(width)}  ${input.format.padEnd(8)} ${plural(input.statements, 'statement').padStart(20)}  ${n(input.bytes)} bytes`,
+    );
   }
   lines.push('');
   lines.push(
@@ -111,8 +118,13 @@ export function statsText(read: ReadResult, shape: GraphProfile): string {
     const shown = shape.perPredicate.slice(0, SHOWN_PREDICATES);
     const nameWidth = Math.min(60, Math.max(...shown.map((p) => p.predicate.length)));
     for (const p of shown) {
-      const name = p.predicate.length > nameWidth ? `…${p.predicate.slice(-(nameWidth - 1))}` : p.predicate.padEnd(nameWidth);
-      lines.push(`  ${name}  ${n(p.triples).padStart(9)} ${n(p.subjects).padStart(9)} ${n(p.objects).padStart(8)} ${n(p.literalObjects).padStart(8)}`);
+      const name =
+        p.predicate.length > nameWidth
+          ? `…${p.predicate.slice(-(nameWidth - 1))}`
+          : p.predicate.padEnd(nameWidth);
+      lines.push(
+        `  ${name}  ${n(p.triples).padStart(9)} ${n(p.subjects).padStart(9)} ${n(p.objects).padStart(8)} ${n(p.literalObjects).padStart(8)}`,
+      );
     }
     const rest = shape.perPredicate.length - shown.length;
     if (rest > 0) lines.push(`  … and ${plural(rest, 'more predicate')} (--json lists all)`);
@@ -120,8 +132,10 @@ export function statsText(read: ReadResult, shape: GraphProfile): string {
   if (rejections.length > 0) {
     lines.push('');
     lines.push(`Rejected statements (${n(rejections.length)}):`);
-    for (const r of rejections.slice(0, SHOWN_REJECTIONS)) lines.push(`  ${r.file}:${r.line}:${r.column}: ${r.reason}`);
-    if (rejections.length > SHOWN_REJECTIONS) lines.push(`  … and ${n(rejections.length - SHOWN_REJECTIONS)} more (--json lists all)`);
+    for (const r of rejections.slice(0, SHOWN_REJECTIONS))
+      lines.push(`  ${r.file}:${r.line}:${r.column}: ${r.reason}`);
+    if (rejections.length > SHOWN_REJECTIONS)
+      lines.push(`  … and ${n(rejections.length - SHOWN_REJECTIONS)} more (--json lists all)`);
   }
   return `${lines.join('\n')}\n`;
 }

@@ -70,7 +70,10 @@ export function profile(graph: Graph): GraphProfile {
   const typeId = graph.terms.id(RDF_TYPE);
   const typed = new Uint8Array(termCount);
   for (let i = 0; i < size; i++) {
-    const si = s[i]!, pi = p[i]!, oi = o[i]!, gi = g[i]!;
+    const si = s[i]!,
+      pi = p[i]!,
+      oi = o[i]!,
+      gi = g[i]!;
     roles[si]! |= 1;
     roles[oi]! |= pi === typeId ? 2 | 8 : 2 | 16;
     roles[pi]! |= 4;
@@ -78,8 +81,14 @@ export function profile(graph: Graph): GraphProfile {
     if (pi === typeId) typed[si] = 1;
   }
 
-  let entities = 0, blankNodes = 0, predicates = 0, literals = 0, namedGraphs = 0;
-  let typedEntities = 0, typeable = 0, classes = 0;
+  let entities = 0,
+    blankNodes = 0,
+    predicates = 0,
+    literals = 0,
+    namedGraphs = 0;
+  let typedEntities = 0,
+    typeable = 0,
+    classes = 0;
   for (let t = 0; t < termCount; t++) {
     const r = roles[t]!;
     if (r & 4) predicates++;
@@ -124,7 +133,12 @@ export function profile(graph: Graph): GraphProfile {
     outDegree: summarize(out),
     inDegree: summarize(inn),
     perPredicate: perPredicate(graph, kinds),
-    types: { typed: typedEntities, of: typeable, share: typeable === 0 ? 0 : typedEntities / typeable, classes },
+    types: {
+      typed: typedEntities,
+      of: typeable,
+      share: typeable === 0 ? 0 : typedEntities / typeable,
+      classes,
+    },
   };
 }
 
@@ -178,12 +192,16 @@ function perPredicate(graph: Graph, kinds: Uint8Array): PredicateProfile[] {
   const { offsets, triples } = graph.byPredicate;
   const rows: PredicateProfile[] = [];
   for (let pid = 0; pid < termCount; pid++) {
-    const from = offsets[pid]!, to = offsets[pid + 1]!;
+    const from = offsets[pid]!,
+      to = offsets[pid + 1]!;
     if (from === to) continue;
-    let subjects = 0, objects = 0, literalObjects = 0;
+    let subjects = 0,
+      objects = 0,
+      literalObjects = 0;
     for (let k = from; k < to; k++) {
       const i = triples[k]!;
-      const si = graph.s[i]!, oi = graph.o[i]!;
+      const si = graph.s[i]!,
+        oi = graph.o[i]!;
       if (subjectStamp[si] !== pid) {
         subjectStamp[si] = pid;
         subjects++;
@@ -194,8 +212,17 @@ function perPredicate(graph: Graph, kinds: Uint8Array): PredicateProfile[] {
       }
       if (kinds[oi] === TermKind.Literal) literalObjects++;
     }
-    rows.push({ predicate: graph.terms.key(pid), id: pid, triples: to - from, subjects, objects, literalObjects });
+    rows.push({
+      predicate: graph.terms.key(pid),
+      id: pid,
+      triples: to - from,
+      subjects,
+      objects,
+      literalObjects,
+    });
   }
-  rows.sort((a, b) => b.triples - a.triples || (a.predicate < b.predicate ? -1 : a.predicate > b.predicate ? 1 : 0));
+  rows.sort(
+    (a, b) => b.triples - a.triples || (a.predicate < b.predicate ? -1 : a.predicate > b.predicate ? 1 : 0),
+  );
   return rows;
 }

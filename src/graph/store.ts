@@ -165,8 +165,12 @@ export class GraphBuilder {
     this.table = new Int32Array(0);
     this.mask = 0;
     const n = this.s.length;
-    const s = this.s.trimmed(), p = this.p.trimmed(), o = this.o.trimmed(), g = this.g.trimmed();
-    const file = this.file.trimmed(), line = this.line.trimmed();
+    const s = this.s.trimmed(),
+      p = this.p.trimmed(),
+      o = this.o.trimmed(),
+      g = this.g.trimmed();
+    const file = this.file.trimmed(),
+      line = this.line.trimmed();
     // A builder kept alive by its caller must not keep the growth buffers too.
     for (const column of [this.s, this.p, this.o, this.g, this.file, this.line]) column.release();
     const termCount = this.terms.size;
@@ -203,7 +207,10 @@ export function row(csr: Csr, term: number): Int32Array {
 }
 
 /** Builds a graph from term-key triples; for tests and small programmatic inputs. */
-export function graphFromKeys(triples: ReadonlyArray<readonly [string, string, string]>, file = 'inline'): Graph {
+export function graphFromKeys(
+  triples: ReadonlyArray<readonly [string, string, string]>,
+  file = 'inline',
+): Graph {
   const b = new GraphBuilder();
   const f = b.addFile(file);
   triples.forEach(([s, p, o], i) => b.addKeys(s, p, o, undefined, f, i + 1));

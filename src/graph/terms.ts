@@ -105,7 +105,9 @@ export class TermDictionary {
     if (id === undefined) {
       id = this.keys.length;
       if (id >= MAX_TERMS) {
-        throw new RangeError(`the term dictionary is full (${MAX_TERMS.toLocaleString('en')} distinct terms)`);
+        throw new RangeError(
+          `the term dictionary is full (${MAX_TERMS.toLocaleString('en')} distinct terms)`,
+        );
       }
       const own = detach(key);
       this.ids.set(own, id);
@@ -121,7 +123,8 @@ export class TermDictionary {
 
   key(id: number): string {
     const k = this.keys[id];
-    if (k === undefined) throw new RangeError(`term id ${id} is not in the dictionary (size ${this.keys.length})`);
+    if (k === undefined)
+      throw new RangeError(`term id ${id} is not in the dictionary (size ${this.keys.length})`);
     return k;
   }
 
@@ -138,4 +141,3 @@ export class TermDictionary {
     return this.keys;
   }
 }
-

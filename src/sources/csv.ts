@@ -55,16 +55,27 @@ export interface CsvReadContext {
 export function parseColumns(spec: string): ColumnRef[] {
   const parts = spec.split(',').map((p) => p.trim());
   if (parts.length < 3 || parts.length > 4 || parts.some((p) => p === '')) {
-    throw new PlumbError('E_USAGE', `--columns needs 3 or 4 comma-separated names or positions, got "${spec}"`, {
-      hint: 'e.g. --columns subject,predicate,object or --columns 0,1,2 (a fourth names the graph)',
-    });
+    throw new PlumbError(
+      'E_USAGE',
+      `--columns needs 3 or 4 comma-separated names or positions, got "${spec}"`,
+      {
+        hint: 'e.g. --columns subject,predicate,object or --columns 0,1,2 (a fourth names the graph)',
+      },
+    );
   }
   return parts.map((p) => (/^\d+$/.test(p) ? { index: Number(p) } : { name: p }));
 }
 
 /** `\t`, `tab`, `\\t` and the character itself all mean a tab. */
 export function parseDelimiter(text: string): string {
-  const named: Record<string, string> = { '\\t': '\t', tab: '\t', comma: ',', semicolon: ';', pipe: '|', space: ' ' };
+  const named: Record<string, string> = {
+    '\\t': '\t',
+    tab: '\t',
+    comma: ',',
+    semicolon: ';',
+    pipe: '|',
+    space: ' ',
+  };
   const delimiter = named[text.toLowerCase()] ?? text;
   if (delimiter.length === 0 || /[\r\n"]/.test(delimiter)) {
     throw new PlumbError('E_USAGE', `--delimiter cannot be ${JSON.stringify(text)}`, {
@@ -75,7 +86,12 @@ export function parseDelimiter(text: string): string {
 }
 
 interface CsvApi {
-  parse(buffer: Buffer | undefined, end: boolean, push: () => void, close: () => void): (Error & { code?: string; lines?: number }) | undefined;
+  parse(
+    buffer: Buffer | undefined,
+    end: boolean,
+    push: () => void,
+    close: () => void,
+  ): (Error & { code?: string; lines?: number }) | undefined;
 }
 
 export async function readCsv(batches: AsyncIterable<TextBatch>, context: CsvReadContext): Promise<void> {
@@ -112,9 +128,13 @@ class CsvReader {
     this.blankPrefix = `_:f${context.sink.fileIndex}_`;
     this.requested = context.columns === undefined ? undefined : parseColumns(context.columns);
     if (this.requested?.some((c) => 'name' in c) && context.header === false) {
-      throw new PlumbError('E_USAGE', '--columns names columns by header, but --no-header says there is none', {
-        hint: 'give positions instead (e.g. --columns 0,1,2), or drop --no-header',
-      });
+      throw new PlumbError(
+        'E_USAGE',
+        '--columns names columns by header, but --no-header says there is none',
+        {
+          hint: 'give positions instead (e.g. --columns 0,1,2), or drop --no-header',
+        },
+      );
     }
     this.header = this.requested?.some((c) => 'name' in c) ? true : context.header;
     const tsv = context.format === 'tsv';
@@ -183,7 +203,10 @@ class CsvReader {
         if (begin !== -1) line = begin;
         resume = line + 1;
         reason = 'a quoted field is never closed';
-      } else if (error.code === 'CSV_INVALID_CLOSING_QUOTE' || error.code === 'CSV_NON_TRIMABLE_CHAR_AFTER_CLOSING_QUOTE') {
+      } else if (
+        error.code === 'CSV_INVALID_CLOSING_QUOTE' ||
+        error.code === 'CSV_NON_TRIMABLE_CHAR_AFTER_CLOSING_QUOTE'
+      ) {
         reason = 'a closing quote is followed by more text (inside a quoted field, write a quote as "")';
       } else {
         reason = error.message.replace(/ (at|on) line \d+/g, '');
@@ -229,14 +252,24 @@ class CsvReader {
     const needed = Math.max(si, pi, oi, gi) + 1;
     const text = () => this.retained.line(line);
     if (cells.length < needed) {
-      this.sink.reject(line, 1, `the row has ${cells.length} cell${cells.length === 1 ? '' : 's'}, the column mapping needs ${needed}`, text());
+      this.sink.reject(
+        line,
+        1,
+        `the row has ${cells.length} cell${cells.length === 1 ? '' : 's'}, the column mapping needs ${needed}`,
+        text(),
+      );
       return;
     }
     const s = this.resource(cells[si]!, 'subject');
     const p = this.resource(cells[pi]!, 'predicate');
     const o = this.object(cells[oi]!);
     const g = gi < 0 || cells[gi]!.trim() === '' ? -1 : this.resource(cells[gi]!, 'graph');
-    for (const [id, column] of [[s, si], [p, pi], [o, oi], [g, gi]] as const) {
+    for (const [id, column] of [
+      [s, si],
+      [p, pi],
+      [o, oi],
+      [g, gi],
+    ] as const) {
       if (typeof id === 'string') {
         this.sink.reject(line, this.columnOf(cells, column), id, text());
         return;
@@ -256,7 +289,8 @@ class CsvReader {
   private isHeader(cells: string[]): boolean {
     if (this.header !== undefined) return this.header;
     const [si, pi, oi] = this.positions as [number, number, number];
-    const named = (cell: string | undefined, role: number) => cell !== undefined && ROLE_NAMES[role]!.includes(cell.trim().toLowerCase());
+    const named = (cell: string | undefined, role: number) =>
+      cell !== undefined && ROLE_NAMES[role]!.includes(cell.trim().toLowerCase());
     return named(cells[si], 0) && named(cells[pi], 1) && named(cells[oi], 2);
   }
 
@@ -314,7 +348,8 @@ class CsvReader {
       const iri = this.bracketed(cell);
       return iri ?? `malformed IRI in the object cell: ${cell}`;
     }
-    if (c === 95 /* _ */ && cell.startsWith('_:') && BARE.test(cell)) return this.terms.intern(this.blankPrefix + cell.slice(2));
+    if (c === 95 /* _ */ && cell.startsWith('_:') && BARE.test(cell))
+      return this.terms.intern(this.blankPrefix + cell.slice(2));
     if (c === 34 /* " */) {
       const m = LITERAL.exec(cell);
       if (m !== null) {
@@ -342,7 +377,16 @@ const IRI_BODY = /^[^\s<>"{}|\\^`]*$/;
 const LITERAL =
   /^"((?:[^"\\]|\\[\s\S])*)"(?:@([A-Za-z]+(?:-[A-Za-z0-9]+)*)|\^\^<([^\s<>"{}|\\^`]*)>|\^\^(xsd|rdf):([A-Za-z_][\w.-]*))?$/;
 
-const STRING_ESCAPES: Record<string, string> = { t: '\t', b: '\b', n: '\n', r: '\r', f: '\f', '"': '"', "'": "'", '\\': '\\' };
+const STRING_ESCAPES: Record<string, string> = {
+  t: '\t',
+  b: '\b',
+  n: '\n',
+  r: '\r',
+  f: '\f',
+  '"': '"',
+  "'": "'",
+  '\\': '\\',
+};
 
 /** N-Triples string escapes (ECHAR, UCHAR) to characters; an unknown escape stays as written. */
 function unescapeString(text: string): string {
@@ -365,7 +409,9 @@ function percentEncode(text: string): string {
 function noop(): void {}
 
 /** csv-parse hands back what a record callback throws; only its own syntax errors are the reader's to handle. */
-function syntaxOnly(error: (Error & { code?: string; lines?: number }) | undefined): (Error & { code?: string; lines?: number }) | undefined {
+function syntaxOnly(
+  error: (Error & { code?: string; lines?: number }) | undefined,
+): (Error & { code?: string; lines?: number }) | undefined {
   if (error === undefined || error instanceof CsvError) return error;
   throw error;
 }

@@ -67,8 +67,10 @@ export async function readInto(
   paths: readonly string[],
   options: ReadOptions = {},
 ): Promise<Omit<ReadResult, 'graph'>> {
-  if (paths.length === 0) throw usageError('no input files given', 'name one or more graph files, or `-` for standard input');
-  if (paths.filter((p) => p === '-').length > 1) throw usageError('standard input (`-`) can be read only once');
+  if (paths.length === 0)
+    throw usageError('no input files given', 'name one or more graph files, or `-` for standard input');
+  if (paths.filter((p) => p === '-').length > 1)
+    throw usageError('standard input (`-`) can be read only once');
   // Decide every format before reading anything, so a bad name fails fast.
   const formats = paths.map((path) => resolveFormat(path, options.format));
   const strict = options.strict ?? false;
@@ -87,7 +89,12 @@ export async function readInto(
     if (progress !== undefined) {
       const before = bytesBefore;
       batches = reportProgress(batches, () => {
-        progress({ phase: 'read', done: before + input.bytes, ...(input.size === undefined ? {} : { total: before + input.size }), detail: path });
+        progress({
+          phase: 'read',
+          done: before + input.bytes,
+          ...(input.size === undefined ? {} : { total: before + input.size }),
+          detail: path,
+        });
       });
     }
     if (format === 'csv' || format === 'tsv') {
@@ -113,10 +120,12 @@ export async function readInto(
   return { accounting, rejections, inputs };
 }
 
-async function* reportProgress(batches: AsyncIterable<TextBatch>, report: () => void): AsyncGenerator<TextBatch> {
+async function* reportProgress(
+  batches: AsyncIterable<TextBatch>,
+  report: () => void,
+): AsyncGenerator<TextBatch> {
   for await (const batch of batches) {
     yield batch;
     report();
   }
 }
-

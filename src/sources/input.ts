@@ -24,7 +24,10 @@ export interface OpenedInput {
 
 const READ_CHUNK = 1 << 18;
 
-export async function openInput(path: string, stdin: NodeJS.ReadableStream | undefined): Promise<OpenedInput> {
+export async function openInput(
+  path: string,
+  stdin: NodeJS.ReadableStream | undefined,
+): Promise<OpenedInput> {
   let size: number | undefined;
   let source: AsyncIterable<Uint8Array>;
   if (path === '-') {
@@ -91,7 +94,11 @@ class StoredBytes implements OpenedInput {
   }
 }
 
-async function* gunzip(path: string, head: Uint8Array, rest: AsyncIterator<Uint8Array>): AsyncGenerator<Uint8Array> {
+async function* gunzip(
+  path: string,
+  head: Uint8Array,
+  rest: AsyncIterator<Uint8Array>,
+): AsyncGenerator<Uint8Array> {
   async function* all(): AsyncGenerator<Uint8Array> {
     yield head;
     for (let next = await rest.next(); !next.done; next = await rest.next()) yield next.value;
@@ -116,12 +123,21 @@ function openError(path: string, error: NodeJS.ErrnoException): PlumbError {
   const where = { position: { file: path } };
   switch (error.code) {
     case 'ENOENT':
-      return new PlumbError('E_INPUT', `no such file: ${path}`, { ...where, hint: 'check the path; use `-` to read standard input' });
+      return new PlumbError('E_INPUT', `no such file: ${path}`, {
+        ...where,
+        hint: 'check the path; use `-` to read standard input',
+      });
     case 'EISDIR':
-      return new PlumbError('E_INPUT', `${path} is a directory, not a graph file`, { ...where, hint: 'name the files inside it instead' });
+      return new PlumbError('E_INPUT', `${path} is a directory, not a graph file`, {
+        ...where,
+        hint: 'name the files inside it instead',
+      });
     case 'EACCES':
     case 'EPERM':
-      return new PlumbError('E_INPUT', `cannot read ${path}: permission denied`, { ...where, hint: 'check the file permissions' });
+      return new PlumbError('E_INPUT', `cannot read ${path}: permission denied`, {
+        ...where,
+        hint: 'check the file permissions',
+      });
     default:
       return new PlumbError('E_INPUT', `cannot read ${path}: ${error.message}`, where);
   }

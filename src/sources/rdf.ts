@@ -306,13 +306,19 @@ class RdfReader {
     let p = this.predicateIds.get(predicate.value);
     if (p === undefined) {
       p = this.termId(predicate);
-      if (predicate.termType === 'NamedNode' && this.predicateIds.size < 4096) this.predicateIds.set(this.terms.key(p), p);
+      if (predicate.termType === 'NamedNode' && this.predicateIds.size < 4096)
+        this.predicateIds.set(this.terms.key(p), p);
     }
     const o = this.termId(quad.object);
     const g = quad.graph.termType === 'DefaultGraph' ? -1 : this.termId(quad.graph);
     if (s < 0 || o < 0 || g < -1) {
       const text = this.lineText(line);
-      this.sink.reject(line, 1, 'a triple term (RDF 1.2) cannot be held in the graph; plumb reads RDF 1.1 triples', text);
+      this.sink.reject(
+        line,
+        1,
+        'a triple term (RDF 1.2) cannot be held in the graph; plumb reads RDF 1.1 triples',
+        text,
+      );
       return;
     }
     if (this.lineMode) {
@@ -381,7 +387,9 @@ class RdfReader {
     if (!this.problemIn(startLine, errorLine)) {
       // A statement cut short at its line's end: point just past the line's content.
       const { column, reason } =
-        startLine < errorLine ? { column: text.length + 1, reason: describe(failure.error, text).reason } : describe(failure.error, text);
+        startLine < errorLine
+          ? { column: text.length + 1, reason: describe(failure.error, text).reason }
+          : describe(failure.error, text);
       this.sink.reject(startLine, column, reason, text);
     }
     this.restartAt(startLine < errorLine ? errorLine : errorLine + 1);
@@ -457,8 +465,7 @@ function describe(error: N3Error, lineText: string): { column: number; reason: s
   const snippet = unexpected[1]!;
   const at = snippet === '' ? -1 : lineText.indexOf(snippet);
   if (snippet.startsWith('<') && !snippet.includes('>')) reason = `unterminated IRI: ${reason}`;
-  else if (snippet.startsWith('"') || snippet.startsWith("'")) reason = `unterminated or malformed string: ${reason}`;
+  else if (snippet.startsWith('"') || snippet.startsWith("'"))
+    reason = `unterminated or malformed string: ${reason}`;
   return { column: at >= 0 ? at + 1 : 1, reason };
 }
-
-

@@ -115,7 +115,8 @@ function wellFormedAt(bytes: Uint8Array, i: number, len: number): boolean {
   const b0 = bytes[i]!;
   const b1 = bytes[i + 1]!;
   if (len >= 2) {
-    let lo = 0x80, hi = 0xbf;
+    let lo = 0x80,
+      hi = 0xbf;
     if (b0 === 0xe0) lo = 0xa0;
     else if (b0 === 0xed) hi = 0x9f;
     else if (b0 === 0xf0) lo = 0x90;
@@ -192,7 +193,8 @@ function sniff(file: string, head: Uint8Array): void {
     });
   if (nul !== -1) throw notText(`a NUL byte at offset ${nul}`);
   const { bad } = decode(sample.subarray(0, sample.length - incompleteTail(sample)));
-  if (bad.length > SNIFF_MAX_INVALID) throw notText(`${bad.length} bytes that are not UTF-8 in its first ${sample.length} bytes`);
+  if (bad.length > SNIFF_MAX_INVALID)
+    throw notText(`${bad.length} bytes that are not UTF-8 in its first ${sample.length} bytes`);
 }
 
 /**
@@ -256,7 +258,12 @@ export async function* textBatches(
       pendingLength += text.length;
       if (pendingLength > maxLine) {
         const head = pending.join('').slice(0, 200);
-        problem({ line, column: 1, reason: `line is longer than ${maxLine.toLocaleString('en')} characters`, text: clip(head) });
+        problem({
+          line,
+          column: 1,
+          reason: `line is longer than ${maxLine.toLocaleString('en')} characters`,
+          text: clip(head),
+        });
         pending = [];
         pendingLength = 0;
         pendingBad = [];
@@ -294,7 +301,12 @@ export async function* textBatches(
       const content = lineAt(text, start);
       const lineNo = firstLine + countBreaks(text.slice(0, start));
       const byte = badBytes[k]!.toString(16).toUpperCase().padStart(2, '0');
-      problem({ line: lineNo, column: at - start + 1, reason: `invalid UTF-8 (byte 0x${byte})`, text: clip(content) });
+      problem({
+        line: lineNo,
+        column: at - start + 1,
+        reason: `invalid UTF-8 (byte 0x${byte})`,
+        text: clip(content),
+      });
       out.push(text.slice(copied, start));
       copied = start + content.length;
     }
@@ -359,7 +371,11 @@ async function* withLine<T>(chunks: AsyncIterable<T>, line: () => number): Async
   } catch (error) {
     if (error instanceof PlumbError && error.position !== undefined && error.position.line === undefined) {
       const options = { position: { ...error.position, line: line() }, cause: error };
-      throw new PlumbError(error.code, error.message, error.hint === undefined ? options : { ...options, hint: error.hint });
+      throw new PlumbError(
+        error.code,
+        error.message,
+        error.hint === undefined ? options : { ...options, hint: error.hint },
+      );
     }
     throw error;
   }

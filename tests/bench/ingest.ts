@@ -64,9 +64,11 @@ export async function generate(path: string, triples: number): Promise<void> {
     const subject = `<${base}entity/E${e}>`;
     const group = Math.min(triples - written, 7 + Math.floor(random() * 7));
     for (let k = 0; k < group; k++) {
-      if (k === 0) buffer += `${subject} ${rdfType} <${base}ontology/Class${Math.floor(random() * random() * 40)}> .\n`;
+      if (k === 0)
+        buffer += `${subject} ${rdfType} <${base}ontology/Class${Math.floor(random() * random() * 40)}> .\n`;
       else if (k === 1) buffer += `${subject} ${label} "Item ${e} of the catalogue"@en .\n`;
-      else if (k === 2 && random() < 0.5) buffer += `${subject} <${base}ontology/count${e % 5}> "${Math.floor(random() * 100_000)}"^^${integer} .\n`;
+      else if (k === 2 && random() < 0.5)
+        buffer += `${subject} <${base}ontology/count${e % 5}> "${Math.floor(random() * 100_000)}"^^${integer} .\n`;
       else {
         const predicate = Math.floor(random() * random() * 80);
         const object = Math.floor(entities * random() ** 3);
@@ -101,11 +103,14 @@ async function timed(work: () => Promise<number>): Promise<Timing & { count: num
 function n3Alone(path: string): Promise<number> {
   return new Promise((resolve, reject) => {
     let count = 0;
-    new Parser({ format: 'N-Triples' }).parse(createReadStream(path, { highWaterMark: 1 << 18 }), (error, quad) => {
-      if (error) reject(error);
-      else if (quad) count++;
-      else resolve(count);
-    });
+    new Parser({ format: 'N-Triples' }).parse(
+      createReadStream(path, { highWaterMark: 1 << 18 }),
+      (error, quad) => {
+        if (error) reject(error);
+        else if (quad) count++;
+        else resolve(count);
+      },
+    );
   });
 }
 
@@ -138,7 +143,8 @@ export async function run(): Promise<void> {
     floor.push(a);
     const b = await timed(() => plumbIngest(path));
     ours.push(b);
-    if (a.count !== TRIPLES || b.count !== TRIPLES) throw new Error(`counted ${a.count} / ${b.count} triples, expected ${TRIPLES}`);
+    if (a.count !== TRIPLES || b.count !== TRIPLES)
+      throw new Error(`counted ${a.count} / ${b.count} triples, expected ${TRIPLES}`);
     console.log(
       `run ${r + 1}: n3 alone ${a.wall.toFixed(2)} s wall / ${a.cpu.toFixed(2)} s cpu; plumb ${b.wall.toFixed(2)} s wall / ${b.cpu.toFixed(2)} s cpu`,
     );
@@ -147,9 +153,15 @@ export async function run(): Promise<void> {
   const oursWall = median(ours.map((t) => t.wall));
   const floorCpu = median(floor.map((t) => t.cpu));
   const oursCpu = median(ours.map((t) => t.cpu));
-  console.log(`n3 parser alone : ${fmt(TRIPLES / floorWall)} triples/s (median wall ${floorWall.toFixed(2)} s; cpu ${floorCpu.toFixed(2)} s)`);
-  console.log(`plumb ingest    : ${fmt(TRIPLES / oursWall)} triples/s (median wall ${oursWall.toFixed(2)} s; cpu ${oursCpu.toFixed(2)} s)`);
-  console.log(`ratio plumb/n3  : ${(oursWall / floorWall).toFixed(2)}× wall, ${(oursCpu / floorCpu).toFixed(2)}× cpu (goal ≤ 1.30×)`);
+  console.log(
+    `n3 parser alone : ${fmt(TRIPLES / floorWall)} triples/s (median wall ${floorWall.toFixed(2)} s; cpu ${floorCpu.toFixed(2)} s)`,
+  );
+  console.log(
+    `plumb ingest    : ${fmt(TRIPLES / oursWall)} triples/s (median wall ${oursWall.toFixed(2)} s; cpu ${oursCpu.toFixed(2)} s)`,
+  );
+  console.log(
+    `ratio plumb/n3  : ${(oursWall / floorWall).toFixed(2)}× wall, ${(oursCpu / floorCpu).toFixed(2)}× cpu (goal ≤ 1.30×)`,
+  );
 
   // Memory of the finished store, with the graph alive.
   gc();
@@ -165,14 +177,22 @@ export async function run(): Promise<void> {
   const after = process.memoryUsage();
   const held = after.heapUsed + after.arrayBuffers - before.heapUsed - before.arrayBuffers;
   const { graph } = result;
-  const columns = [graph.s, graph.p, graph.o, graph.g, graph.provenance.file, graph.provenance.line].reduce((n, a) => n + a.byteLength, 0);
-  const indexes = [graph.bySubject, graph.byObject, graph.byPredicate].reduce((n, c) => n + c.offsets.byteLength + c.triples.byteLength, 0);
+  const columns = [graph.s, graph.p, graph.o, graph.g, graph.provenance.file, graph.provenance.line].reduce(
+    (n, a) => n + a.byteLength,
+    0,
+  );
+  const indexes = [graph.bySubject, graph.byObject, graph.byPredicate].reduce(
+    (n, c) => n + c.offsets.byteLength + c.triples.byteLength,
+    0,
+  );
   console.log(
     `store: ${fmt(graph.size)} triples, ${fmt(graph.terms.size)} distinct terms; ` +
       `columns + provenance ${(columns / graph.size).toFixed(1)} B/triple, CSR indexes ${(indexes / graph.size).toFixed(1)} B/triple, ` +
       `dictionary ≈ ${((held - columns - indexes) / graph.size).toFixed(1)} B/triple (${((held - columns - indexes) / graph.terms.size).toFixed(0)} B/term)`,
   );
-  console.log(`resident bytes per triple, all in: ${(held / graph.size).toFixed(1)} (goal ≤ 80); rss ${(after.rss / 2 ** 20).toFixed(0)} MiB`);
+  console.log(
+    `resident bytes per triple, all in: ${(held / graph.size).toFixed(1)} (goal ≤ 80); rss ${(after.rss / 2 ** 20).toFixed(0)} MiB`,
+  );
   console.log(
     `peak growth while reading: ${(Math.max(peak, held) / 2 ** 20).toFixed(0)} MiB for a ${(fileBytes / 2 ** 20).toFixed(0)} MiB file (streams: grows with terms, not bytes)`,
   );

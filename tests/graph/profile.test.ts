@@ -22,7 +22,14 @@ describe('profile', () => {
   const p = profile(graph);
 
   it('counts triples, entities, predicates, literals and blank nodes', () => {
-    expect(p).toMatchObject({ triples: 9, entities: 5, blankNodes: 1, predicates: 3, literals: 2, namedGraphs: 0 });
+    expect(p).toMatchObject({
+      triples: 9,
+      entities: 5,
+      blankNodes: 1,
+      predicates: 3,
+      literals: 2,
+      namedGraphs: 0,
+    });
     // a, b, c, Person, _:n are entities; "Ann" and "Bo" are literals; the predicates are not entities.
     expect(p.terms).toBe(10);
   });
@@ -36,7 +43,9 @@ describe('profile', () => {
   });
 
   it('lists predicates by use with distinct subjects, objects and literal objects', () => {
-    expect(p.perPredicate.map((r) => [r.predicate, r.triples, r.subjects, r.objects, r.literalObjects])).toEqual([
+    expect(
+      p.perPredicate.map((r) => [r.predicate, r.triples, r.subjects, r.objects, r.literalObjects]),
+    ).toEqual([
       [x('knows'), 4, 3, 3, 0],
       [x('name'), 3, 3, 2, 3],
       [RDF_TYPE, 2, 2, 1, 0],

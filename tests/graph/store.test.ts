@@ -18,7 +18,8 @@ describe('GraphBuilder', () => {
   it('keeps every triple through many rehashes', () => {
     const b = new GraphBuilder();
     for (let i = 0; i < 20_000; i++) b.addKeys(`http://x/${i % 977}`, `http://x/p${i % 7}`, `http://x/${i}`);
-    for (let i = 0; i < 20_000; i += 3) b.addKeys(`http://x/${i % 977}`, `http://x/p${i % 7}`, `http://x/${i}`);
+    for (let i = 0; i < 20_000; i += 3)
+      b.addKeys(`http://x/${i % 977}`, `http://x/p${i % 7}`, `http://x/${i}`);
     expect(b.size).toBe(20_000);
     expect(b.duplicates).toBe(6667);
   });

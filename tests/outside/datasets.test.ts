@@ -39,7 +39,9 @@ describe('open link-prediction datasets read as TSV', () => {
       const files = ['train', 'valid', 'test'].map((split) => join(datasets, name, `${split}.txt`));
       const read = await readGraph(files);
       expect(read.rejections).toEqual([]);
-      expect(read.inputs.map((i) => [i.format, i.statements])).toEqual(expected.splits.map((n) => ['tsv', n]));
+      expect(read.inputs.map((i) => [i.format, i.statements])).toEqual(
+        expected.splits.map((n) => ['tsv', n]),
+      );
       const total = expected.splits.reduce((a, b) => a + b, 0);
       expect(read.accounting).toEqual({ read: total, accepted: total, duplicates: 0, rejected: 0 });
       const shape = profile(read.graph);

@@ -98,7 +98,8 @@ describe('W3C RDF 1.1 N-Triples Recommendation', () => {
 
   it('§2.4 RDF Blank Nodes, Example 3: a label names the same node throughout the document', async () => {
     // Source: W3C RDF 1.1 N-Triples (2014) §2.4, Example 3.
-    const text = '_:alice <http://xmlns.com/foaf/0.1/knows> _:bob .\n_:bob <http://xmlns.com/foaf/0.1/knows> _:alice .\n';
+    const text =
+      '_:alice <http://xmlns.com/foaf/0.1/knows> _:bob .\n_:bob <http://xmlns.com/foaf/0.1/knows> _:alice .\n';
     const r = await readText(text, 'ntriples');
     const [[s1, , o1], [s2, , o2]] = triplesOf(r.graph).map((t) => t.split(' ')) as [string[], string[]];
     expect(s1).toBe(o2);
@@ -108,7 +109,8 @@ describe('W3C RDF 1.1 N-Triples Recommendation', () => {
 
   it('§8 Grammar: ECHAR and UCHAR escapes in literals and UCHAR in IRIs are decoded', async () => {
     // Source: W3C RDF 1.1 N-Triples (2014) §8, productions [9] STRING_LITERAL_QUOTE, [10] UCHAR, [153s] ECHAR, [8] IRIREF.
-    const text = '<http://example.org/caf\\u00E9> <http://example.org/p> "\\t\\b\\n\\r\\f\\"\\\'\\\\ \\u00E9 \\U0001F600" .\n';
+    const text =
+      '<http://example.org/caf\\u00E9> <http://example.org/p> "\\t\\b\\n\\r\\f\\"\\\'\\\\ \\u00E9 \\U0001F600" .\n';
     const r = await readText(text, 'ntriples');
     expect(r.rejections).toEqual([]);
     const g = r.graph;
@@ -166,7 +168,10 @@ describe('W3C RDF 1.1 Turtle Recommendation', () => {
 
   it('§2.1 Simple Triples, Example 2, and §2.2 Predicate Lists: Example 3 is the same graph as Example 4', async () => {
     // Source: W3C RDF 1.1 Turtle (2014) §2.1 Example 2; §2.2 Examples 3 and 4 ("the same triples").
-    const ex2 = await readText('<http://example.org/#spiderman> <http://www.perceive.net/schemas/relationship/enemyOf> <http://example.org/#green-goblin> .', 'turtle');
+    const ex2 = await readText(
+      '<http://example.org/#spiderman> <http://www.perceive.net/schemas/relationship/enemyOf> <http://example.org/#green-goblin> .',
+      'turtle',
+    );
     expect(ex2.graph.size).toBe(1);
     const ex3 = await readText(
       `<http://example.org/#spiderman> <http://www.perceive.net/schemas/relationship/enemyOf> <http://example.org/#green-goblin> ;
@@ -184,7 +189,10 @@ describe('W3C RDF 1.1 Turtle Recommendation', () => {
 
   it('§2.3 Object Lists: Example 5 is the same graph as Example 6', async () => {
     // Source: W3C RDF 1.1 Turtle (2014) §2.3, Examples 5 and 6.
-    const ex5 = await readText('<http://example.org/#spiderman> <http://xmlns.com/foaf/0.1/name> "Spiderman", "Человек-паук"@ru .', 'turtle');
+    const ex5 = await readText(
+      '<http://example.org/#spiderman> <http://xmlns.com/foaf/0.1/name> "Spiderman", "Человек-паук"@ru .',
+      'turtle',
+    );
     const ex6 = await readText(
       `<http://example.org/#spiderman> <http://xmlns.com/foaf/0.1/name> "Spiderman" .
 <http://example.org/#spiderman> <http://xmlns.com/foaf/0.1/name> "Человек-паук"@ru .`,
@@ -203,7 +211,9 @@ describe('W3C RDF 1.1 Turtle Recommendation', () => {
       'PREFIX somePrefix: <http://www.perceive.net/schemas/relationship/>\n\n<http://example.org/#green-goblin> somePrefix:enemyOf <http://example.org/#spiderman> .',
       'turtle',
     );
-    expect(triplesOf(ex7.graph)).toEqual(['<http://example.org/#green-goblin> <http://www.perceive.net/schemas/relationship/enemyOf> <http://example.org/#spiderman>']);
+    expect(triplesOf(ex7.graph)).toEqual([
+      '<http://example.org/#green-goblin> <http://www.perceive.net/schemas/relationship/enemyOf> <http://example.org/#spiderman>',
+    ]);
     expect(triplesOf(ex8.graph)).toEqual(triplesOf(ex7.graph));
     const ex9 = `# A triple with all absolute IRIs
 <http://one.example/subject1> <http://one.example/predicate1> <http://one.example/object1> .
@@ -268,7 +278,9 @@ and up to two sequential apostrophes ('').''' .
       '"Cette Série des Années Septante"@fr-be',
       '"This is a multi-line                        # literal with embedded new lines and quotes\\nliteral with many quotes (\\"\\"\\"\\"\\")\\nand up to two sequential apostrophes (\'\')."',
     ]);
-    expect(triplesOf(r.graph)[0]).toBe(`<http://example.org/vocab/show/218> <${RDFS}label> "That Seventies Show"`);
+    expect(triplesOf(r.graph)[0]).toBe(
+      `<http://example.org/vocab/show/218> <${RDFS}label> "That Seventies Show"`,
+    );
   });
 
   it('§2.5.2 Numbers and §2.5.3 Booleans, Examples 12 and 13: integer, decimal, double, boolean', async () => {
@@ -286,16 +298,27 @@ and up to two sequential apostrophes ('').''' .
       `<http://en.wikipedia.org/wiki/Helium> <http://example.org/elementsatomicMass> "4.002602"^^<${XSD}decimal>`,
       `<http://en.wikipedia.org/wiki/Helium> <http://example.org/elementsspecificGravity> "1.663E-4"^^<${XSD}double>`,
     ]);
-    const ex13 = await readText('@prefix : <http://example.org/stats> .\n<http://somecountry.example/census2007>\n    :isLandlocked false .           # xsd:boolean', 'turtle');
-    expect(triplesOf(ex13.graph)).toEqual([`<http://somecountry.example/census2007> <http://example.org/statsisLandlocked> "false"^^<${XSD}boolean>`]);
+    const ex13 = await readText(
+      '@prefix : <http://example.org/stats> .\n<http://somecountry.example/census2007>\n    :isLandlocked false .           # xsd:boolean',
+      'turtle',
+    );
+    expect(triplesOf(ex13.graph)).toEqual([
+      `<http://somecountry.example/census2007> <http://example.org/statsisLandlocked> "false"^^<${XSD}boolean>`,
+    ]);
   });
 
   it('§2.6 RDF Blank Nodes, Example 14, and §2.7 Nesting: Example 16 is the same graph as Example 17', async () => {
     // Source: W3C RDF 1.1 Turtle (2014) §2.6 Example 14; §2.7 Examples 15, 16 and 17 ("the same triples").
-    const ex14 = await readText('@prefix foaf: <http://xmlns.com/foaf/0.1/> .\n\n_:alice foaf:knows _:bob .\n_:bob foaf:knows _:alice .', 'turtle');
+    const ex14 = await readText(
+      '@prefix foaf: <http://xmlns.com/foaf/0.1/> .\n\n_:alice foaf:knows _:bob .\n_:bob foaf:knows _:alice .',
+      'turtle',
+    );
     const [[a1, , b1], [b2, , a2]] = triplesOf(ex14.graph).map((t) => t.split(' ')) as [string[], string[]];
     expect([a1 === a2, b1 === b2, a1 === b1]).toEqual([true, true, false]);
-    const ex15 = await readText('@prefix foaf: <http://xmlns.com/foaf/0.1/> .\n\n# Someone knows someone else, who has the name "Bob".\n[] foaf:knows [ foaf:name "Bob" ] .', 'turtle');
+    const ex15 = await readText(
+      '@prefix foaf: <http://xmlns.com/foaf/0.1/> .\n\n# Someone knows someone else, who has the name "Bob".\n[] foaf:knows [ foaf:name "Bob" ] .',
+      'turtle',
+    );
     expect(withoutBlankLabels(ex15.graph)).toEqual([`_:? <${FOAF}knows> _:?`, `_:? <${FOAF}name> "Bob"`]);
     const ex16 = await readText(
       `@prefix foaf: <http://xmlns.com/foaf/0.1/> .
@@ -436,6 +459,8 @@ The second line
       'turtle',
     );
     expect(ex22.accounting).toEqual({ read: 2, accepted: 1, duplicates: 1, rejected: 0 });
-    expect(triplesOf(ex22.graph)).toEqual(['<http://example.org/stuff/1.0/a> <http://example.org/stuff/1.0/b> "The first line\\nThe second line\\n  more"']);
+    expect(triplesOf(ex22.graph)).toEqual([
+      '<http://example.org/stuff/1.0/a> <http://example.org/stuff/1.0/b> "The first line\\nThe second line\\n  more"',
+    ]);
   });
 });

@@ -12,7 +12,10 @@ const dir = mkdtempSync(join(os.tmpdir(), 'plumb-bad-input-'));
 afterAll(() => rmSync(dir, { recursive: true, force: true }));
 
 const LINE = '<http://example.org/a> <http://example.org/p> <http://example.org/b> .\n';
-const lines = (n: number): string => Array.from({ length: n }, (_, i) => `<http://example.org/s${i}> <http://example.org/p> "${i}" .\n`).join('');
+const lines = (n: number): string =>
+  Array.from({ length: n }, (_, i) => `<http://example.org/s${i}> <http://example.org/p> "${i}" .\n`).join(
+    '',
+  );
 
 /** The error a read ends with; fails the test when the read succeeds. */
 async function failure(promise: Promise<unknown>): Promise<PlumbError> {
@@ -68,7 +71,10 @@ describe('inputs that cannot be read', () => {
 
 describe('malformed statements', () => {
   it('an unterminated IRI: a rejection with its position, then the rest of the file', async () => {
-    const r = await readText(`${LINE}<http://example.org/a> <http://example.org/p <http://example.org/c> .\n${LINE.replace('/b>', '/d>')}`, 'ntriples');
+    const r = await readText(
+      `${LINE}<http://example.org/a> <http://example.org/p <http://example.org/c> .\n${LINE.replace('/b>', '/d>')}`,
+      'ntriples',
+    );
     expect(r.rejections).toEqual([
       {
         file: '-',
@@ -108,11 +114,21 @@ describe('malformed statements', () => {
     expect(batches.join('')).toBe('short line\n\nnext\n');
     expect(problems).toEqual([2]);
     const strict = textBatches(chunks(), { file: 'f', strict: true, maxLineLength: 5000 });
-    await expect((async () => { for await (const _ of strict) void _; })()).rejects.toThrow(/longer than/);
+    await expect(
+      (async () => {
+        for await (const _ of strict) void _;
+      })(),
+    ).rejects.toThrow(/longer than/);
   });
 
   it('invalid UTF-8: the line is rejected with the byte, the rest is read', async () => {
-    const bytes = Buffer.concat([Buffer.from(LINE), Buffer.from('<http://example.org/a> <http://example.org/p> "caf'), Buffer.from([0xe9]), Buffer.from('" .\n'), Buffer.from(LINE.replace('/b>', '/c>'))]);
+    const bytes = Buffer.concat([
+      Buffer.from(LINE),
+      Buffer.from('<http://example.org/a> <http://example.org/p> "caf'),
+      Buffer.from([0xe9]),
+      Buffer.from('" .\n'),
+      Buffer.from(LINE.replace('/b>', '/c>')),
+    ]);
     const r = await readText(bytes, 'ntriples');
     expect(countsAddUp(r)).toBe(true);
     expect(r.accounting).toMatchObject({ read: 3, accepted: 2, rejected: 1 });

@@ -8,12 +8,17 @@ const U = (local: string): string => `<${DEFAULT_BASE_IRI}${local}>`;
 describe('CSV and TSV', () => {
   it('reads a TSV edge list with bare tokens as IRIs under the default base', async () => {
     const r = await readText('a\tlikes\tb\nb\tlikes\t42\n', 'tsv');
-    expect(triplesOf(r.graph)).toEqual([`${U('a')} ${U('likes')} ${U('b')}`, `${U('b')} ${U('likes')} ${U('42')}`]);
+    expect(triplesOf(r.graph)).toEqual([
+      `${U('a')} ${U('likes')} ${U('b')}`,
+      `${U('b')} ${U('likes')} ${U('42')}`,
+    ]);
     expect(Array.from(r.graph.provenance.line)).toEqual([1, 2]);
   });
 
   it('places bare cells under --base-iri and keeps absolute IRIs and <IRIs> as they are', async () => {
-    const r = await readText('a,p,http://other.example/x\na,p,<urn:isbn:123>\n_:n,p,b\n', 'csv', { baseIri: 'https://kg.example/' });
+    const r = await readText('a,p,http://other.example/x\na,p,<urn:isbn:123>\n_:n,p,b\n', 'csv', {
+      baseIri: 'https://kg.example/',
+    });
     expect(triplesOf(r.graph)).toEqual([
       '<https://kg.example/a> <https://kg.example/p> <http://other.example/x>',
       '<https://kg.example/a> <https://kg.example/p> <urn:isbn:123>',
@@ -22,7 +27,8 @@ describe('CSV and TSV', () => {
   });
 
   it('turns object cells in N-Triples literal form, or with spaces, into literals', async () => {
-    const text = 'subject,predicate,object\nx,name,"""Nel Varo""@en"\nx,age,"""42""^^xsd:integer"\nx,note,two words\nx,code,"""a\\tb"""\n';
+    const text =
+      'subject,predicate,object\nx,name,"""Nel Varo""@en"\nx,age,"""42""^^xsd:integer"\nx,note,two words\nx,code,"""a\\tb"""\n';
     const r = await readText(text, 'csv');
     expect(triplesOf(r.graph).map((t) => t.split(' ').slice(2).join(' '))).toEqual([
       '"Nel Varo"@en',
@@ -45,7 +51,10 @@ describe('CSV and TSV', () => {
 
   it('reads a fourth column as the named graph', async () => {
     const r = await readText('a\tp\tb\tg1\na\tp\tb\t\n', 'tsv', { columns: '0,1,2,3' });
-    expect(Array.from(r.graph.g).map((g) => (g < 0 ? '-' : r.graph.terms.key(g)))).toEqual([`${DEFAULT_BASE_IRI}g1`, '-']);
+    expect(Array.from(r.graph.g).map((g) => (g < 0 ? '-' : r.graph.terms.key(g)))).toEqual([
+      `${DEFAULT_BASE_IRI}g1`,
+      '-',
+    ]);
   });
 
   it('skips blank lines and # comments, and rejects short rows and literal subjects with their line', async () => {
@@ -65,7 +74,9 @@ describe('CSV and TSV', () => {
   });
 
   it('fails with a usage error when a named column is missing', async () => {
-    const error = await readText('a,b,c\n1,2,3\n', 'csv', { columns: 'subject,predicate,object' }).catch((e: unknown) => e);
+    const error = await readText('a,b,c\n1,2,3\n', 'csv', { columns: 'subject,predicate,object' }).catch(
+      (e: unknown) => e,
+    );
     expect(error).toBeInstanceOf(PlumbError);
     expect((error as PlumbError).message).toMatch(/column "subject" is not in the header/);
     expect((error as PlumbError).hint).toMatch(/a, b, c/);

@@ -28,12 +28,47 @@ const VALID: Record<InputFormat, string> = {
 };
 
 /** Characters that matter to the grammars, so random inputs hit the interesting paths. */
-const SYNTAX = ['<', '>', '"', "'", '\\', '.', ';', ',', '[', ']', '(', ')', '{', '}', '@', '^', '_', ':', ' ', '\t', '\n', '\r', '#', 'a', 'x', '1', 'é', '😀', '\ufeff'];
+const SYNTAX = [
+  '<',
+  '>',
+  '"',
+  "'",
+  '\\',
+  '.',
+  ';',
+  ',',
+  '[',
+  ']',
+  '(',
+  ')',
+  '{',
+  '}',
+  '@',
+  '^',
+  '_',
+  ':',
+  ' ',
+  '\t',
+  '\n',
+  '\r',
+  '#',
+  'a',
+  'x',
+  '1',
+  'é',
+  '😀',
+  '\ufeff',
+];
 
 const syntaxText = fc.array(fc.constantFrom(...SYNTAX), { maxLength: 200 }).map((cs) => cs.join(''));
 const anyText = fc.string({ unit: 'grapheme', maxLength: 200 }).map((s) => s.replace(/\0/g, ''));
 
-type Mutation = { kind: 'delete' | 'insert' | 'duplicate' | 'truncate'; at: number; span: number; char: string };
+type Mutation = {
+  kind: 'delete' | 'insert' | 'duplicate' | 'truncate';
+  at: number;
+  span: number;
+  char: string;
+};
 const mutation = fc.record({
   kind: fc.constantFrom<Mutation['kind']>('delete', 'insert', 'duplicate', 'truncate'),
   at: fc.nat(),
@@ -47,7 +82,8 @@ function mutate(text: string, mutations: Mutation[]): string {
     const at = out.length === 0 ? 0 : m.at % out.length;
     if (m.kind === 'delete') out = out.slice(0, at) + out.slice(at + m.span);
     else if (m.kind === 'insert') out = out.slice(0, at) + m.char + out.slice(at);
-    else if (m.kind === 'duplicate') out = out.slice(0, at + m.span) + out.slice(at, at + m.span) + out.slice(at + m.span);
+    else if (m.kind === 'duplicate')
+      out = out.slice(0, at + m.span) + out.slice(at, at + m.span) + out.slice(at + m.span);
     else out = out.slice(0, at);
   }
   return out;
@@ -66,7 +102,10 @@ function checkResult(r: ReadResult, text: string): void {
   expect(r.graph.size).toBe(r.accounting.accepted);
 }
 
-async function readOrPlumbError(text: string | Buffer[], format: InputFormat): Promise<ReadResult | PlumbError> {
+async function readOrPlumbError(
+  text: string | Buffer[],
+  format: InputFormat,
+): Promise<ReadResult | PlumbError> {
   try {
     return await readText(text, format);
   } catch (error) {
@@ -101,14 +140,18 @@ describe('fuzzing the readers', () => {
 
     it(`${format}: mutated valid input never escapes the reader and reads the same in any chunks`, async () => {
       await fc.assert(
-        fc.asyncProperty(fc.array(mutation, { minLength: 1, maxLength: 4 }), fc.array(fc.nat(), { maxLength: 8 }), async (mutations, cuts) => {
-          const text = mutate(VALID[format], mutations);
-          const whole = await readText(text, format);
-          checkResult(whole, text);
-          const pieces = await readText(cutAt(Buffer.from(text), cuts), format);
-          expect(triplesOf(pieces.graph)).toEqual(triplesOf(whole.graph));
-          expect(pieces.rejections).toEqual(whole.rejections);
-        }),
+        fc.asyncProperty(
+          fc.array(mutation, { minLength: 1, maxLength: 4 }),
+          fc.array(fc.nat(), { maxLength: 8 }),
+          async (mutations, cuts) => {
+            const text = mutate(VALID[format], mutations);
+            const whole = await readText(text, format);
+            checkResult(whole, text);
+            const pieces = await readText(cutAt(Buffer.from(text), cuts), format);
+            expect(triplesOf(pieces.graph)).toEqual(triplesOf(whole.graph));
+            expect(pieces.rejections).toEqual(whole.rejections);
+          },
+        ),
         { numRuns: 60 },
       );
     });
@@ -116,11 +159,15 @@ describe('fuzzing the readers', () => {
 
   it('arbitrary bytes: a result whose counts add up, or a PlumbError — nothing else', async () => {
     await fc.assert(
-      fc.asyncProperty(fc.uint8Array({ maxLength: 300 }), fc.constantFrom(...FORMATS), async (bytes, format) => {
-        const out = await readOrPlumbError([Buffer.from(bytes)], format);
-        if (out instanceof PlumbError) expect(out.exitCode).toBe(2);
-        else expect(countsAddUp(out)).toBe(true);
-      }),
+      fc.asyncProperty(
+        fc.uint8Array({ maxLength: 300 }),
+        fc.constantFrom(...FORMATS),
+        async (bytes, format) => {
+          const out = await readOrPlumbError([Buffer.from(bytes)], format);
+          if (out instanceof PlumbError) expect(out.exitCode).toBe(2);
+          else expect(countsAddUp(out)).toBe(true);
+        },
+      ),
       { numRuns: 150 },
     );
   });

@@ -31,7 +31,11 @@ export function triplesOf(graph: Graph): string[] {
 export function countsAddUp(result: ReadResult): boolean {
   const a = result.accounting;
   const perFile = result.inputs.reduce((n, i) => n + i.statements, 0);
-  return a.read === a.accepted + a.duplicates + a.rejected && a.read === perFile && a.rejected === result.rejections.length;
+  return (
+    a.read === a.accepted + a.duplicates + a.rejected &&
+    a.read === perFile &&
+    a.rejected === result.rejections.length
+  );
 }
 
 /**

@@ -62,8 +62,14 @@ describe('N-Triples', () => {
 
   it('makes blank nodes distinct per file and consistent within one', async () => {
     const builder = new GraphBuilder();
-    await readInto(builder, ['-'], { format: 'ntriples', stdin: (await import('node:stream')).Readable.from([`_:x ${P} _:y .\n_:x ${P} ${B} .\n`]) });
-    await readInto(builder, ['-'], { format: 'ntriples', stdin: (await import('node:stream')).Readable.from([`_:x ${P} _:y .\n`]) });
+    await readInto(builder, ['-'], {
+      format: 'ntriples',
+      stdin: (await import('node:stream')).Readable.from([`_:x ${P} _:y .\n_:x ${P} ${B} .\n`]),
+    });
+    await readInto(builder, ['-'], {
+      format: 'ntriples',
+      stdin: (await import('node:stream')).Readable.from([`_:x ${P} _:y .\n`]),
+    });
     const g = builder.build();
     expect(g.size).toBe(3);
     const keys = triplesOf(g);
@@ -98,7 +104,11 @@ describe('N-Quads', () => {
     const text = `${A} ${P} ${B} ${G} .\n${A} ${P} ${B} .\n${A} ${P} ${B} ${G} .\n${A} ${P} ${B} _:g .\n`;
     const r = await readText(text, 'nquads');
     expect(r.accounting).toMatchObject({ read: 4, accepted: 3, duplicates: 1 });
-    expect(Array.from(r.graph.g).map((g) => (g < 0 ? '' : r.graph.terms.key(g)))).toEqual(['http://example.org/g', '', '_:f0_g']);
+    expect(Array.from(r.graph.g).map((g) => (g < 0 ? '' : r.graph.terms.key(g)))).toEqual([
+      'http://example.org/g',
+      '',
+      '_:f0_g',
+    ]);
   });
 
   it('rejects a quad with five terms and goes on', async () => {

@@ -33,7 +33,13 @@ const SAMPLES: Record<InputFormat, string> = {
     'ex:a ex:p .',
     'ex:c ex:p ( ex:x ex:y ) .',
   ].join('\n'),
-  trig: ['@prefix ex: <http://example.org/> .', 'ex:g { ex:a ex:p ex:b . ex:a ex:p "ø" }', 'ex:a ex:p ex:c ex:d .', 'ex:a ex:p ex:c .', ''].join('\n'),
+  trig: [
+    '@prefix ex: <http://example.org/> .',
+    'ex:g { ex:a ex:p ex:b . ex:a ex:p "ø" }',
+    'ex:a ex:p ex:c ex:d .',
+    'ex:a ex:p ex:c .',
+    '',
+  ].join('\n'),
   csv: 'subject,predicate,object\na,p,"x, ""y"""\r\nb,p,"multi\r\nline é"\r\nc,p,"open\r\nd,p,e\r\n',
   tsv: 'a\tp\tb\n# note\nb\tp\tü\nshort\n',
 };
@@ -73,7 +79,10 @@ describe('chunk boundaries', () => {
   });
 
   it('a BOM is dropped only at the very start', async () => {
-    const r = await readText(['\ufeff', '<http://example.org/a> <http://example.org/p> "\ufeffx" .\n'], 'ntriples');
+    const r = await readText(
+      ['\ufeff', '<http://example.org/a> <http://example.org/p> "\ufeffx" .\n'],
+      'ntriples',
+    );
     expect(triplesOf(r.graph)[0]).toBe('<http://example.org/a> <http://example.org/p> "\ufeffx"');
   });
 });

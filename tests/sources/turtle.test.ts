@@ -20,9 +20,13 @@ describe('Turtle', () => {
   it('resolves relative IRIs against @base, and against the file by default', async () => {
     const r = await readGraph(['fixtures/syntax/people.ttl']);
     const t = triplesOf(r.graph);
-    expect(t).toContain('<http://example.org/circle/member/mirel> <http://example.org/circle/knows> <http://example.org/circle/member/tavi>');
+    expect(t).toContain(
+      '<http://example.org/circle/member/mirel> <http://example.org/circle/knows> <http://example.org/circle/member/tavi>',
+    );
     const noBase = await readText('<a> <p> <b> .\n', 'turtle', { baseIri: 'http://base.example/dir/' });
-    expect(triplesOf(noBase.graph)).toEqual(['<http://base.example/dir/a> <http://base.example/dir/p> <http://base.example/dir/b>']);
+    expect(triplesOf(noBase.graph)).toEqual([
+      '<http://base.example/dir/a> <http://base.example/dir/p> <http://base.example/dir/b>',
+    ]);
   });
 
   it('gives each triple the line of the token that completed it', async () => {
@@ -61,7 +65,10 @@ describe('Turtle', () => {
   });
 
   it('reports an undefined prefix with its position', async () => {
-    const r = await readText('@prefix ex: <http://example.org/> .\nex:a nope:p ex:b .\nex:a ex:p ex:b .\n', 'turtle');
+    const r = await readText(
+      '@prefix ex: <http://example.org/> .\nex:a nope:p ex:b .\nex:a ex:p ex:b .\n',
+      'turtle',
+    );
     expect(r.rejections).toHaveLength(1);
     expect(r.rejections[0]).toMatchObject({ line: 2, column: 6 });
     expect(r.rejections[0]!.reason).toMatch(/Undefined prefix "nope:"/);
@@ -73,11 +80,15 @@ describe('Turtle', () => {
     const text = `${PREFIXES}ex:s ex:q ex:o .\nex:broken ex:p ex:o ex:extra ;\n${filler}\n  ex:last "v" .\nex:after ex:p ex:o .\n`;
     const r = await readText(text, 'turtle');
     expect(r.accounting).toMatchObject({ rejected: 1, accepted: 2 });
-    expect(triplesOf(r.graph)[1]).toBe('<http://example.org/after> <http://example.org/p> <http://example.org/o>');
+    expect(triplesOf(r.graph)[1]).toBe(
+      '<http://example.org/after> <http://example.org/p> <http://example.org/o>',
+    );
   });
 
   it('stops at the first error under --strict', async () => {
-    const error = await readText(`${PREFIXES}ex:a ex:p .\n`, 'turtle', { strict: true }).catch((e: unknown) => e);
+    const error = await readText(`${PREFIXES}ex:a ex:p .\n`, 'turtle', { strict: true }).catch(
+      (e: unknown) => e,
+    );
     expect(error).toBeInstanceOf(PlumbError);
     expect((error as PlumbError).position).toMatchObject({ line: 3 });
   });
