@@ -198,7 +198,8 @@ function basisLayerOp(g: GraphTensors) {
           dM = dM === undefined ? term : tf.add(dM, term);
         }
         dH = tf.add(dH, pairMeansGrad(dM!, g));
-        const dC = tf.stack(dCoef, 1) as tf.Tensor2D;
+        // Stacking along rows then transposing is one contiguous copy; stacking columns is strided.
+        const dC = tf.transpose(tf.stack(dCoef, 0)) as tf.Tensor2D;
         const dA = padRows(tf.sparse.sparseSegmentSum(dC, g.pairIndex, g.pairTypeFlat), types);
         return [dH, dW0, dV, dA];
       },
@@ -285,7 +286,9 @@ export function denseRelationWeights(shape: LayerShape, weights: LayerWeights): 
     case 'none':
       return weights.w as unknown as tf.Tensor3D;
     case 'basis':
-      return tf.reshape(tf.matMul(weights.a!, tf.reshape(weights.w, [b, dIn * dOut])), [types, dIn, dOut]);
+      // A copy, not a view: the wasm backend caches its packed right-hand matmul operand by buffer,
+      // ignoring shape, and the aggregate formulation multiplies by V's buffer as [B·d_in, d_out].
+      return tf.reshape(tf.matMul(weights.a!, tf.clone(tf.reshape(weights.w, [b, dIn * dOut]))), [types, dIn, dOut]);
     case 'block': {
       const ki = dIn / b;
       const ko = dOut / b;
