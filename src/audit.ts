@@ -4,8 +4,8 @@ import type { Graph } from './graph/store.js';
 import type { Accounting, AuditReport, CheckInfo, InputInfo, PredicateRow, TrustFigure } from './result.js';
 import type { ProgressSink } from './progress.js';
 import type { BackendName, ModelConfig, TrainedModel } from './model/types.js';
-import { crossFit, scoreTriples, scorableTriples, type CrossFitResult, type FitFunction, type RankFunction, type WarmStart } from './scoring/crossfit.js';
-import { histogram, plausibility, type OutOfFoldScores, type PlausibilityBasis } from './scoring/plausibility.js';
+import { crossFit, entityCount, scoreTriples, scorableTriples, type CrossFitResult, type FitFunction, type RankFunction, type WarmStart } from './scoring/crossfit.js';
+import { chooseBasis, histogram, plausibility, type OutOfFoldScores, type PlausibilityBasis } from './scoring/plausibility.js';
 import { explainTriples, explanationLine, type Explanation } from './scoring/explain.js';
 import { corruptGraph, CORRUPTION_KINDS, termToField } from './evaluation/corrupt.js';
 import { detectionTable } from './evaluation/detection.js';
@@ -28,7 +28,8 @@ import { filteredRanks } from './scoring/ranking.js';
 export const AUDIT_DEFAULTS = {
   folds: 5,
   warmStart: 'none' as WarmStart,
-  basis: 'logit' as PlausibilityBasis,
+  /** `combined` where ranking every triple is affordable, else `logit` (see chooseBasis). */
+  basis: 'auto' as PlausibilityBasis | 'auto',
   /** A scored triple below this plausibility is a suspect. */
   threshold: 0.02,
   /** Suspects listed at most (all triples are still scored). */
@@ -52,7 +53,7 @@ export interface AuditOptions {
   backend?: BackendName | 'auto';
   folds?: number;
   warmStart?: WarmStart;
-  basis?: PlausibilityBasis;
+  basis?: PlausibilityBasis | 'auto';
   threshold?: number;
   top?: number;
   candidates?: number;
@@ -133,7 +134,7 @@ async function scoreGraph(
   progress: ProgressSink,
   keepModels: boolean,
 ): Promise<{ oof: OutOfFoldScores & { fold: Int8Array }; plaus: Float64Array; backend: BackendName; folds: number; fitSeconds: number; scoreSeconds: number; models: Map<number, TrainedModel> }> {
-  const basis = options.basis ?? AUDIT_DEFAULTS.basis;
+  const basis = resolveBasis(graph, options);
   const needRanks = basis !== 'logit';
   const models = new Map<number, TrainedModel>();
   if (options.trainedModel) {
@@ -177,6 +178,16 @@ async function scoreGraph(
   });
   const oof = { ...cf, fold: Int8Array.from(cf.fold) };
   return { oof, plaus: calibrated(oof, basis), backend: cf.backend, folds: cf.folds, fitSeconds: cf.seconds.fit, scoreSeconds: cf.seconds.score, models };
+}
+
+/** The basis in force: the one asked for, else by the cost of ranking (see chooseBasis). */
+export function resolveBasis(graph: Graph, options: AuditOptions & { only?: Uint8Array }): PlausibilityBasis {
+  const asked = options.basis ?? AUDIT_DEFAULTS.basis;
+  if (asked !== 'auto') return asked;
+  const scorable = scorableTriples(graph);
+  let n = 0;
+  for (let i = 0; i < graph.size; i++) if (scorable[i] && (!options.only || options.only[i])) n++;
+  return chooseBasis(n, entityCount(graph, scorable));
 }
 
 /** Plausibility over the scored triples with a finite logit; NaN for the others. */
@@ -529,7 +540,7 @@ function assembleReport(
     createdAt: new Date().toISOString(),
     inputs: options.inputs ?? [],
     accounting: options.accounting ?? { read: graph.size, accepted: graph.size, duplicates: 0, rejected: 0 },
-    options: reportedOptions(options),
+    options: reportedOptions(graph, options),
     seed,
     durations: parts.durations,
     summary: { findings: parts.findings.length, byKind, bySeverity, scored: parts.scored },
@@ -545,13 +556,13 @@ function assembleReport(
 }
 
 /** The options in force, after defaults: plain values only. */
-function reportedOptions(options: AuditGraphOptions): Record<string, unknown> {
+function reportedOptions(graph: Graph, options: AuditGraphOptions): Record<string, unknown> {
   const out: Record<string, unknown> = {
     checks: options.checks !== false,
     model: options.noModel ? 'none' : options.trainedModel ? 'given' : 'fitted out-of-fold',
     folds: options.trainedModel ? 0 : (options.folds ?? AUDIT_DEFAULTS.folds),
     warmStart: options.warmStart ?? AUDIT_DEFAULTS.warmStart,
-    basis: options.basis ?? AUDIT_DEFAULTS.basis,
+    basis: resolveBasis(graph, options),
     threshold: options.threshold ?? AUDIT_DEFAULTS.threshold,
     top: options.top ?? AUDIT_DEFAULTS.top,
     candidates: options.candidates ?? AUDIT_DEFAULTS.candidates,

@@ -4,6 +4,7 @@ import type { Finding } from '../src/findings.js';
 import { graphFromKeys } from '../src/graph/store.js';
 import { literalKey } from '../src/graph/terms.js';
 import { fakeFit } from './scoring/fake-model.js';
+import { filteredRanks } from '../src/scoring/ranking.js';
 
 const ex = (x: string): string => `http://example.org/${x}`;
 const rows: Array<[string, string, string]> = [];
@@ -16,6 +17,7 @@ function steps(violationOn?: number): AuditSteps & { fake: ReturnType<typeof fak
   return {
     fake,
     fit: fake.fit,
+    rank: (m, g, t) => filteredRanks(m, g, t),
     checks: async (g) => {
       const findings: Finding[] = [];
       if (violationOn !== undefined) {
@@ -66,6 +68,8 @@ describe('auditGraphDetailed', () => {
     expect(report.plausibilityHistogram!.reduce((a, b) => a + b, 0)).toBe(60);
     expect(report.predicates.map((p) => p.triples).reduce((a, b) => a + b, 0)).toBe(graph.size);
     expect(report.durations.fit).toBeTypeOf('number');
+    // Small graph: ranking is affordable, so plausibility combines logits and filtered ranks.
+    expect(report.options.basis).toBe('combined');
     // Every fold model is disposed once explanations are done.
     expect(s.fake.live()).toBe(0);
   });

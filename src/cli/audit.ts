@@ -25,7 +25,7 @@ interface AuditFlags {
   checks: boolean;
   closedWorld?: boolean;
   skip?: string[];
-  basis: PlausibilityBasis;
+  basis: PlausibilityBasis | 'auto';
   warmStart: 'none' | 'half';
   encoder?: 'rgcn' | 'none';
   dim?: string;
@@ -171,7 +171,7 @@ export const registerAudit: RegisterCommand = (program, { io, setExitCode }) => 
     .option('--no-checks', 'skip the schema and mined checks (model only)')
     .option('--closed-world', 'checks: read a missing type as an error')
     .option('--skip <checks>', 'checks: skip these (comma-separated ids)', list)
-    .addOption(new Option('--basis <basis>', 'what plausibility calibrates per predicate').choices(PLAUSIBILITY_BASES).default(AUDIT_DEFAULTS.basis))
+    .addOption(new Option('--basis <basis>', 'what plausibility calibrates per predicate: logit, rank, combined, or auto (combined where ranking every triple is affordable)').choices([...PLAUSIBILITY_BASES, 'auto']).default(AUDIT_DEFAULTS.basis))
     .addOption(new Option('--warm-start <mode>', 'fold models start from a model that hid their half (half) or from scratch').choices(['none', 'half']).default(AUDIT_DEFAULTS.warmStart))
     .addOption(new Option('--encoder <encoder>', 'rgcn (R-GCN encoder) or none (plain DistMult)').choices(['rgcn', 'none']))
     .option('--dim <n>', 'embedding width')

@@ -2,8 +2,8 @@ import type { Graph } from '../graph/store.js';
 import type { BackendName, ModelConfig } from '../model/types.js';
 import type { ProgressSink } from '../progress.js';
 import { degreeHeuristic, randomOrder, suspicionFromPlausibility } from '../scoring/baselines.js';
-import { crossFit, scorableTriples, type FitFunction, type RankFunction, type WarmStart } from '../scoring/crossfit.js';
-import { plausibility, type PlausibilityBasis } from '../scoring/plausibility.js';
+import { crossFit, entityCount, scorableTriples, type FitFunction, type RankFunction, type WarmStart } from '../scoring/crossfit.js';
+import { chooseBasis, plausibility, type PlausibilityBasis } from '../scoring/plausibility.js';
 import { detectionTable, type DetectionMetrics, type DetectionTable } from './detection.js';
 import { fieldToTerm, type TruthEntry } from './corrupt.js';
 import { PlumbError } from '../errors.js';
@@ -28,6 +28,7 @@ export interface CompareOptions {
   seed?: number;
   folds?: number;
   warmStart?: WarmStart;
+  /** Default: `combined` where ranking is affordable, else `logit` (chooseBasis). */
   basis?: PlausibilityBasis;
   /** Model settings shared by both models (the encoder is set per method). */
   model?: Partial<ModelConfig>;
@@ -60,7 +61,8 @@ export async function methodSuspicion(graph: Graph, method: DetectionMethod, opt
     case 'distmult':
     case 'rgcn': {
       if (!options.fit) throw new Error(`method ${method} needs the fit function`);
-      const basis = options.basis ?? 'logit';
+      const scorable = scorableTriples(graph);
+      const basis = options.basis ?? chooseBasis(scorable.reduce((a, b) => a + b, 0), entityCount(graph, scorable));
       const result = await crossFit(graph, {
         folds: options.folds ?? 5,
         seed: options.seed ?? 1,

@@ -27,6 +27,14 @@ export type RankFunction = (
 
 export type WarmStart = 'none' | 'half';
 
+/**
+ * Settings fold models take unless given: early stopping with the model's default patience stopped
+ * fold models in the noisy first epochs (validation MRR flat near 0.03 for ~6 epochs on UMLS), which
+ * left them untrained (AP 0.04 on 5% random errors, against 0.64 when trained on); the weights of the
+ * best validation epoch are kept anyway, so a longer patience costs only time.
+ */
+export const FOLD_MODEL_DEFAULTS: Partial<ModelConfig> = { patience: 20 };
+
 export interface CrossFitOptions {
   /** Number of folds k (at least 2). */
   folds?: number;
@@ -75,6 +83,22 @@ export function scorableTriples(graph: Graph): Uint8Array {
   for (let t = 0; t < keys.length; t++) isResource[t] = termKind(keys[t]!) === TermKind.Literal ? 0 : 1;
   for (let i = 0; i < graph.size; i++) out[i] = isResource[graph.s[i]!]! & isResource[graph.o[i]!]!;
   return out;
+}
+
+/** Entities a model of the graph ranks among: resources in some scorable triple. */
+export function entityCount(graph: Graph, scorable: Uint8Array = scorableTriples(graph)): number {
+  const seen = new Uint8Array(graph.terms.size);
+  let n = 0;
+  for (let i = 0; i < graph.size; i++) {
+    if (!scorable[i]) continue;
+    for (const t of [graph.s[i]!, graph.o[i]!]) {
+      if (!seen[t]) {
+        seen[t] = 1;
+        n++;
+      }
+    }
+  }
+  return n;
 }
 
 /** Assigns each selected triple to one of k folds of near-equal size, at random; -1 for the others. */
@@ -143,7 +167,7 @@ export async function crossFit(graph: Graph, options: CrossFitOptions): Promise<
   const warm = options.warmStart ?? 'none';
   const fitsPlanned = k + (warm === 'half' ? 2 : 0);
   const perFitSeconds = options.maxSeconds === undefined ? undefined : options.maxSeconds / fitsPlanned;
-  const base: FitOptions = { ...options.model };
+  const base: FitOptions = { ...FOLD_MODEL_DEFAULTS, ...options.model };
   if (options.backend !== undefined) base.backend = options.backend;
   if (perFitSeconds !== undefined) base.maxSeconds = perFitSeconds;
 

@@ -45,7 +45,7 @@ describe('compareMethods', () => {
   const kindOf = Array.from({ length: graph.size }, (_, i) => (i >= firstInjected ? injected[i - firstInjected]!.kind : null));
 
   it('measures each method on the same triples and lays out one table', async () => {
-    const result = await compareMethods(graph, kindOf, { methods: ['random', 'degree', 'type-distribution', 'distmult'], fit: fakeFit().fit, folds: 2 });
+    const result = await compareMethods(graph, kindOf, { methods: ['random', 'degree', 'type-distribution', 'distmult'], fit: fakeFit().fit, folds: 2, basis: 'logit' });
     // type-distribution is skipped without its function.
     expect(result.map((r) => r.method)).toEqual(['random', 'degree', 'distmult']);
     for (const r of result) {

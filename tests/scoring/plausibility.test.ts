@@ -69,9 +69,13 @@ describe('plausibility', () => {
     expect(Array.from(rankPercentile(scores([0, 0, 0], [0, 0, 0], ranks)))).toEqual([1, 0.5, 0]);
     const p = plausibility(scores([0, 0, 0], [0, 0, 0], ranks), { basis: 'rank', prior: 0 });
     expect(Array.from(p)).toEqual([1, 0.5, 0]);
-    // Combined: the mean of both shares (logits all tie at ½).
+    // Combined: the mean of both shares (logits all tie at ½: 0.75, 0.5, 0.25), placed again among the predicate's triples.
     const c = plausibility(scores([0, 0, 0], [0, 0, 0], ranks), { basis: 'combined', prior: 0 });
-    expect(Array.from(c)).toEqual([0.75, 0.5, 0.25]);
+    expect(Array.from(c)).toEqual([1, 0.5, 0]);
+    // The combined figure is a share again: its lowest value in a large predicate is 0.
+    const n = 50;
+    const big = scores(Array.from({ length: n }, (_, i) => Math.sin(i)), Array(n).fill(0), { s: Array.from({ length: n }, (_, i) => 1 + ((i * 7) % n)), o: Array.from({ length: n }, (_, i) => 1 + ((i * 11) % n)), candidates: n });
+    expect(Math.min(...plausibility(big, { basis: 'combined', prior: 0 }))).toBe(0);
     expect(() => plausibility(scores([0], [0]), { basis: 'rank' })).toThrow(/ranks/);
   });
 
