@@ -8,9 +8,12 @@ import { registerCheck } from './check.js';
 import { registerAudit } from './audit.js';
 import { registerGate } from './gate.js';
 import { registerCorrupt } from './corrupt.js';
+import { registerFit } from './fit.js';
+import { registerEvaluate } from './evaluate.js';
+import { registerDemo } from './demo.js';
 
 /** Every command, in the order `--help` lists them. Add a command by adding its file here. */
-const COMMANDS: RegisterCommand[] = [registerAudit, registerCheck, registerGate, registerStats, registerCorrupt];
+const COMMANDS: RegisterCommand[] = [registerAudit, registerCheck, registerFit, registerGate, registerStats, registerCorrupt, registerEvaluate, registerDemo];
 
 export function buildProgram(io: CliIO, setExitCode: (code: ExitCode) => void): Command {
   const program = new Command('plumb')

@@ -249,7 +249,8 @@ export async function loadModel(dir: string, graph?: Graph, options: LoadOptions
     for (const v of weightList(weights)) v.dispose();
     return rethrowMemory(error, `computing entity embeddings for ${entities.count} entities`);
   }
-  return new RelationalModel(config, backend, entities, relations, manifest.history, weights, embeddings, fingerprint, entityKeys, unseen);
+  const isNew = Uint8Array.from(rowOf, (row) => (row < 0 ? 1 : 0));
+  return new RelationalModel(config, backend, entities, relations, manifest.history, weights, embeddings, fingerprint, entityKeys, unseen, undefined, isNew);
 }
 
 /** Rebuilds the weights; `rowOf` maps each new entity to its saved row (-1: new, takes the mean row). */

@@ -37,6 +37,8 @@ export class RelationalModel implements TrainedModel {
     readonly unseenEntities = 0,
     /** Set when loaded without a graph: the dictionary the entity and relation indexes refer to. */
     readonly dictionary?: TermDictionary,
+    /** Set when loaded against a graph: 1 for entities the saved model did not know. */
+    readonly unseen?: Uint8Array,
   ) {}
 
   private check(s: Int32Array, r: Int32Array | null, o: Int32Array | null): void {

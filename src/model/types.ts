@@ -87,6 +87,8 @@ export interface TrainedModel {
   readonly history: HistoryEntry[];
   /** Entities of the graph the model was loaded against that it never saw in training (0 after `fit`). */
   readonly unseenEntities?: number;
+  /** When loaded against a graph: 1 for each entity (by index) that the saved model never saw. */
+  readonly unseen?: Uint8Array | undefined;
   /** DistMult logits f(s,r,o) for triples given as entity/relation indexes (batched). */
   score(s: Int32Array, r: Int32Array, o: Int32Array): Promise<Float32Array>;
   /** For each query i, logits of every entity as object of (s[i], r[i], ?), row-major [queries × entities]. */
