@@ -6,7 +6,7 @@ import { createProgressSink, formatTerminalSummary, parseFormats, writeReports }
 import type { RegisterCommand } from './commands.js';
 import { isInteractive } from './io.js';
 import { inputPaths, toReadOptions } from './read-options.js';
-import { addAuditReadOptions, modelFlags } from './audit.js';
+import { addAuditReadOptions, modelFlags, outPath } from './audit.js';
 
 interface GateFlags {
   base?: string[];
@@ -111,9 +111,10 @@ export const registerGate: RegisterCommand = (program, { io, setExitCode }) => {
     };
     if (flags.schema) options.schema = inputPaths(flags.schema, io);
     if (flags.shapes) options.shapes = inputPaths(flags.shapes, io);
-    if (typeof modelValue === 'string') options.modelDir = modelValue;
+    // Paths from the command line are relative to the CLI's working folder (config paths are absolute already).
+    if (typeof modelValue === 'string') options.modelDir = outPath(modelValue, io);
     if (modelValue === false) options.noModel = true;
-    if (flags.suppressions !== undefined) options.suppressions = flags.suppressions;
+    if (flags.suppressions !== undefined) options.suppressions = outPath(flags.suppressions, io);
     const model = modelFlags({
       ...(flags.encoder ? { encoder: flags.encoder } : {}),
       ...(flags.dim !== undefined ? { dim: flags.dim } : {}),
@@ -128,10 +129,13 @@ export const registerGate: RegisterCommand = (program, { io, setExitCode }) => {
     } finally {
       progress.stop();
     }
-    const written = await writeReports(run.report, flags.out, formats);
+    const written = await writeReports(run.report, outPath(flags.out, io), formats);
+    // The summary ends with the gate's outcome and the thresholds crossed.
     io.stdout.write(formatTerminalSummary(run.report, { color: isInteractive(io) }));
-    const outcome = run.report.gate!;
-    io.stdout.write(outcome.passed ? 'gate: passed\n' : `gate: failed\n${outcome.crossed.map((c) => `  ${c}\n`).join('')}`);
+    const expired = run.report.gate?.expiredSuppressions ?? 0;
+    if (expired > 0) {
+      io.stdout.write(`note: ${expired} suppression${expired === 1 ? ' has' : 's have'} expired, so ${expired === 1 ? 'its finding counts' : 'their findings count'} again (the reports say when and why it was accepted)\n`);
+    }
     io.stderr.write(`plumb: wrote ${written.join(', ')}\n`);
     setExitCode(run.exitCode);
   });
