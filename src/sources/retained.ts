@@ -7,16 +7,28 @@ import { lineAt, offsetAfterBreaks, type TextBatch } from './text.js';
  */
 export class RetainedText {
   private batches: TextBatch[] = [];
+  private chars = 0;
+
+  /** @param limit characters kept at most, newest first, even when a statement is longer (one huge Turtle statement). */
+  constructor(private readonly limit = 64 * 1024 * 1024) {}
 
   push(batch: TextBatch): void {
     this.batches.push(batch);
+    this.chars += batch.text.length;
   }
 
-  /** Forgets batches that end before line `line` (always keeps the newest). */
+  /** Forgets batches that end before line `line`, and the oldest beyond the limit (always keeps the newest). */
   dropBefore(line: number): void {
     let drop = 0;
-    while (drop < this.batches.length - 1 && end(this.batches[drop]!) <= line) drop++;
-    if (drop > 0) this.batches = this.batches.slice(drop);
+    let chars = this.chars;
+    while (drop < this.batches.length - 1 && (end(this.batches[drop]!) <= line || chars > this.limit)) {
+      chars -= this.batches[drop]!.text.length;
+      drop++;
+    }
+    if (drop > 0) {
+      this.batches = this.batches.slice(drop);
+      this.chars = chars;
+    }
   }
 
   /** The retained text from the start of line `line` on, as pieces. */

@@ -85,9 +85,15 @@ export function clip(text: string, max = 200): string {
 /** Position of the last line break in `text` that is certainly complete (a CR at the very end may be half a CRLF). */
 function lastBreak(text: string): number {
   const lf = text.lastIndexOf('\n');
-  let cr = text.lastIndexOf('\r');
-  // lastIndexOf clamps a negative start to 0, so a CR at 0 needs its own test.
-  if (cr === text.length - 1) cr = cr === 0 ? -1 : text.lastIndexOf('\r', cr - 1);
+  // Only a CR after the last LF matters; searching the tail keeps LF-only input from a full backward scan.
+  let cr = -1;
+  for (let i = text.indexOf('\r', lf + 1); i !== -1; i = text.indexOf('\r', i + 1)) cr = i;
+  if (cr === text.length - 1) {
+    // A CR at the very end may be half of a CRLF: the break before it is the last certain one.
+    cr = -1;
+    for (let i = text.indexOf('\r', lf + 1); i !== -1 && i < text.length - 1; i = text.indexOf('\r', i + 1))
+      cr = i;
+  }
   return Math.max(lf, cr);
 }
 
