@@ -26,7 +26,7 @@ const MODEL_FLAGS: { flag: string; key: keyof ModelConfig; kind: Kind; help: str
   { flag: 'negatives', key: 'negatives', kind: 'integer', low: 1, high: 1000, help: 'corrupted triples per positive' },
   { flag: 'sampling', key: 'sampling', kind: 'choice', choices: ['uniform', 'typed'], help: 'replacements from all entities, or from those seen in that position of that predicate' },
   { flag: 'epochs', key: 'epochs', kind: 'integer', low: 1, high: 100_000, help: 'most passes over the training triples' },
-  { flag: 'batch-size', key: 'batchSize', kind: 'integer', low: 1, high: 10_000_000, help: 'positive triples per step' },
+  { flag: 'batch-size', key: 'batchSize', kind: 'integer', low: 0, high: 10_000_000, help: 'positive triples per step; 0: an eighth of the training triples, within 128–32,768' },
   { flag: 'lr', key: 'learningRate', kind: 'number', low: 1e-6, high: 10, help: 'Adam learning rate' },
   { flag: 'l2', key: 'l2', kind: 'number', low: 0, high: 100, help: 'L2 weight on the decoder inputs' },
   { flag: 'patience', key: 'patience', kind: 'integer', low: 1, high: 100_000, help: 'epochs without a better validation MRR before stopping' },

@@ -9,11 +9,11 @@ import type { BackendName } from './types.js';
  * Picks and starts the TensorFlow.js backend, once per process.
  *
  * `auto` takes the native backend (`@tensorflow/tfjs-node`) where it resolves, else WebAssembly; the
- * pure-JS cpu backend only for tiny graphs (under {@link TINY_GRAPH} entities, where starting the
- * WebAssembly module costs more than the work) or when asked for. `tfjs-node` is imported
- * dynamically behind a guard: offline it cannot be installed, and its absence must never fail.
+ * pure-JS cpu backend (about 60× slower per training step) only for toy graphs of under
+ * {@link TINY_GRAPH} entities, or when asked for. `tfjs-node` is imported dynamically behind a
+ * guard: offline it cannot be installed, and its absence must never fail.
  */
-export const TINY_GRAPH = 100;
+export const TINY_GRAPH = 10;
 
 const require = createRequire(import.meta.url);
 let current: BackendName | undefined;

@@ -18,7 +18,7 @@ export const DEFAULT_MODEL_CONFIG: ModelConfig = Object.freeze({
   negatives: 10,
   sampling: 'uniform',
   epochs: 100,
-  batchSize: 4096,
+  batchSize: 0,
   learningRate: 0.01,
   l2: 0.01,
   patience: 5,
@@ -57,7 +57,7 @@ export function resolveConfig(partial: Partial<ModelConfig> = {}): ModelConfig {
   between('edgeDropout', config.edgeDropout, 0, 0.95);
   between('negatives', config.negatives, 1, 1000, true);
   between('epochs', config.epochs, 1, 100_000, true);
-  between('batchSize', config.batchSize, 1, 10_000_000, true);
+  between('batchSize', config.batchSize, 0, 10_000_000, true);
   between('learningRate', config.learningRate, 1e-6, 10);
   between('l2', config.l2, 0, 100);
   between('patience', config.patience, 1, 100_000, true);

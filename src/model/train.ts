@@ -17,6 +17,14 @@ import type { BackendName, FitOptions, HistoryEntry, ModelConfig, TrainedModel }
 export const VALIDATION_SAMPLE = 1000;
 /** Default held-out share of the training triples when no validation triples are given. */
 export const HELD_OUT_SHARE = 0.05;
+/**
+ * Early stopping waits `patience` epochs without a better validation MRR, but only once learning has
+ * visibly started (the MRR rose this much above its first value): from small initial weights the
+ * MRR can sit at chance level for many steps before it moves. Before that it waits this many times
+ * longer, so a graph with nothing to learn still stops.
+ */
+const LEARNING_STARTED = 0.02;
+const STALLED_PATIENCE = 4;
 /** Below this many held-out triples, early stopping is too noisy: train for all epochs instead. */
 const MIN_HELD_OUT = 20;
 
@@ -88,10 +96,11 @@ export async function fit(graph: Graph, options: FitOptions = {}, internals: Fit
     trainGraph = layout ? graphTensors(layout.build(trainKeep)) : undefined;
     optimizer = tf.train.adam(config.learningRate);
     const history: HistoryEntry[] = [];
-    const batchSize = Math.min(config.batchSize, trainIndex.length);
+    const batchSize = config.batchSize > 0 ? Math.min(config.batchSize, trainIndex.length) : autoBatchSize(trainIndex.length);
     const stepsPerEpoch = Math.ceil(trainIndex.length / batchSize);
     let best = -Infinity;
     let bestEpoch = 0;
+    let first: number | undefined;
     let snapshot: Float32Array[] | undefined;
     const deadline = options.maxSeconds === undefined ? Infinity : started + options.maxSeconds * 1000;
     const order = trainIndex.slice();
@@ -129,11 +138,12 @@ export async function fit(graph: Graph, options: FitOptions = {}, internals: Fit
       const entry: HistoryEntry = { epoch, loss: lossSum / seen, seconds: (performance.now() - started) / 1000 };
       if (validSample.length > 0) {
         entry.validMrr = validationMrr(config, weights, shapes, trainGraph, known, data, validSample);
+        first ??= entry.validMrr;
         if (entry.validMrr > best) {
           best = entry.validMrr;
           bestEpoch = epoch;
           snapshot = variables.map((v) => v.dataSync().slice() as Float32Array);
-        } else if (epoch - bestEpoch >= config.patience) {
+        } else if (epoch - bestEpoch >= (best > first + LEARNING_STARTED ? config.patience : STALLED_PATIENCE * config.patience)) {
           stop = true;
         }
       }
@@ -164,6 +174,15 @@ export async function fit(graph: Graph, options: FitOptions = {}, internals: Fit
     trainGraph?.dispose();
     optimizer?.dispose();
   }
+}
+
+/**
+ * The automatic batch: an eighth of the training triples, so an epoch is about eight steps, within
+ * [128, 32768]. For R-GCN every step encodes the whole graph, so big batches amortise the encoder;
+ * a small graph still gets several updates per epoch, which early stopping counts in.
+ */
+export function autoBatchSize(trainTriples: number): number {
+  return Math.min(trainTriples, Math.max(128, Math.min(32_768, Math.ceil(trainTriples / 8))));
 }
 
 const formulationOf = (internals: FitInternals): { formulation?: Formulation } =>

@@ -26,7 +26,7 @@ export interface ModelConfig {
   /** `uniform`: replacements drawn from all entities; `typed`: from entities seen in that position of that predicate. */
   sampling: 'uniform' | 'typed';
   epochs: number;
-  /** Positive triples per training step. */
+  /** Positive triples per training step; 0 = automatic (see `train.ts`). */
   batchSize: number;
   learningRate: number;
   /** Weight of the L2 penalty on the decoder's inputs (entity rows and relation vectors of the batch). */
