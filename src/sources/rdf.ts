@@ -355,7 +355,9 @@ class RdfReader {
   }
 
   private fail(error: N3Error): void {
-    // A quad not yet committed belongs to the statement that just failed.
+    // A quad not yet committed belongs to the statement that failed, unless its "." was read and the
+    // failure lies in what follows (a lexer error reports no token of its own).
+    if (this.pendingLine !== 0 && this.previousType === '.') this.commit();
     this.pendingLine = 0;
     const relative = error.context?.token?.line ?? error.context?.line;
     const line = relative === undefined ? this.tokenLine : this.lineOffset + relative;

@@ -172,6 +172,84 @@ describe('fuzzing the readers', () => {
     );
   });
 
+  it('N-Triples built from known-good and known-bad lines: exactly the bad lines are rejected, every good one kept', async () => {
+    const good = [
+      (i: number) => `<http://x.example/s${i}> <http://x.example/p> <http://x.example/o${i % 3}> .`,
+      (i: number) => `_:b${i % 4} <http://x.example/p> "lit ${i}"@en .`,
+      (i: number) =>
+        `<http://x.example/s${i}> <http://x.example/q> "${i}"^^<http://www.w3.org/2001/XMLSchema#integer> .`,
+    ];
+    const bad = [
+      (i: number) => `<http://x.example/s${i} <http://x.example/p> <http://x.example/o> .`,
+      (i: number) => `<http://x.example/s${i}> <http://x.example/p> "open .`,
+      (i: number) => `<http://x.example/s${i}> <http://x.example/p> <http://x.example/o>`,
+      (i: number) => `<http://x.example/s${i}> <http://x.example/p> .`,
+      (i: number) => `"lit" <http://x.example/p> <http://x.example/o${i}> .`,
+      (i: number) =>
+        `<http://x.example/s${i}> <http://x.example/p> <http://x.example/o> <http://x.example/g> .`,
+      () => 'not a triple at all',
+    ];
+    const neutral = ['', '# a comment', '   '];
+    const line = fc.oneof(
+      fc.record({ kind: fc.constant('good' as const), at: fc.nat(good.length - 1) }),
+      fc.record({ kind: fc.constant('bad' as const), at: fc.nat(bad.length - 1) }),
+      fc.record({ kind: fc.constant('neutral' as const), at: fc.nat(neutral.length - 1) }),
+    );
+    await fc.assert(
+      fc.asyncProperty(
+        fc.array(line, { maxLength: 25 }),
+        fc.constantFrom('\n', '\r\n'),
+        async (lines, eol) => {
+          const texts = lines.map((l, i) =>
+            l.kind === 'good' ? good[l.at]!(i) : l.kind === 'bad' ? bad[l.at]!(i) : neutral[l.at]!,
+          );
+          const r = await readText(texts.join(eol), 'ntriples');
+          const badLines = lines.flatMap((l, i) => (l.kind === 'bad' ? [i + 1] : []));
+          const goodLines = lines.flatMap((l, i) => (l.kind === 'good' ? [i + 1] : []));
+          expect(r.rejections.map((x) => x.line)).toEqual(badLines);
+          expect(r.accounting.accepted + r.accounting.duplicates).toBe(goodLines.length);
+          expect([...new Set(r.graph.provenance.line)].every((n) => goodLines.includes(n))).toBe(true);
+        },
+      ),
+      { numRuns: 200 },
+    );
+  });
+
+  it('TSV built from known-good and known-bad rows: exactly the bad rows are rejected', async () => {
+    const good = [
+      (i: number) => `s${i}\tp\to${i % 3}`,
+      (i: number) => `s${i}\tp\t"v ${i}"@en`,
+      (i: number) => `<http://x.example/s${i}>\tp\t_:b`,
+    ];
+    const bad = [
+      (i: number) => `s${i}\tp`,
+      (i: number) => `"lit"\tp\to${i}`,
+      (i: number) => `s${i}\t\to`,
+      (i: number) => `s${i}\t_:p\to`,
+    ];
+    const neutral = ['', '# a comment'];
+    const row = fc.oneof(
+      fc.record({ kind: fc.constant('good' as const), at: fc.nat(good.length - 1) }),
+      fc.record({ kind: fc.constant('bad' as const), at: fc.nat(bad.length - 1) }),
+      fc.record({ kind: fc.constant('neutral' as const), at: fc.nat(neutral.length - 1) }),
+    );
+    await fc.assert(
+      fc.asyncProperty(fc.array(row, { maxLength: 25 }), async (rows) => {
+        const texts = rows.map((l, i) =>
+          l.kind === 'good' ? good[l.at]!(i) : l.kind === 'bad' ? bad[l.at]!(i) : neutral[l.at]!,
+        );
+        const r = await readText(texts.join('\n'), 'tsv');
+        expect(r.rejections.map((x) => x.line)).toEqual(
+          rows.flatMap((l, i) => (l.kind === 'bad' ? [i + 1] : [])),
+        );
+        expect(r.accounting.accepted + r.accounting.duplicates).toBe(
+          rows.filter((l) => l.kind === 'good').length,
+        );
+      }),
+      { numRuns: 150 },
+    );
+  });
+
   it('the valid samples are valid', async () => {
     for (const format of FORMATS) {
       const r = await readText(VALID[format], format);

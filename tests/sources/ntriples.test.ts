@@ -50,6 +50,15 @@ describe('N-Triples', () => {
     expect(Array.from(r.graph.provenance.line)).toEqual([1, 4, 6]);
   });
 
+  it('keeps the line before one that breaks at its very first character', async () => {
+    const r = await readText(
+      `${A} ${P} ${B} .\n<http://example.org/x ${P} ${C} .\n${B} ${P} ${C} .\n`,
+      'ntriples',
+    );
+    expect(r.rejections.map((x) => [x.line, x.column])).toEqual([[2, 1]]);
+    expect(triplesOf(r.graph)).toEqual([`${A} ${P} ${B}`, `${B} ${P} ${C}`]);
+  });
+
   it('stops at the first malformed line under --strict with file:line:column', async () => {
     const text = `${A} ${P} ${B} .\n${A} ${P} ${C} ${C} .\n${A} ${P} ${C} .\n`;
     const error = await readText(text, 'ntriples', { strict: true }).catch((e: unknown) => e);
