@@ -4,6 +4,7 @@ import type { Graph } from './graph/store.js';
 import type { Accounting, AuditReport, CheckInfo, InputInfo, PredicateRow, TrustFigure } from './result.js';
 import type { ProgressSink } from './progress.js';
 import type { BackendName, ModelConfig, TrainedModel } from './model/types.js';
+import { defaultWorkers } from './scoring/fold-worker.js';
 import { crossFit, entityCount, scoreTriples, scorableTriples, type CrossFitResult, type FitFunction, type RankFunction, type WarmStart } from './scoring/crossfit.js';
 import { chooseBasis, histogram, plausibility, type OutOfFoldScores, type PlausibilityBasis } from './scoring/plausibility.js';
 import { explainTriples, explanationLine, type Explanation } from './scoring/explain.js';
@@ -63,6 +64,8 @@ export interface AuditOptions {
   calibrateRate?: number;
   /** Time budget for all model fits together (seconds). */
   maxSeconds?: number;
+  /** Worker threads fitting folds side by side (default: one per core, at most one per fold; 0 = none). */
+  workers?: number;
   /** Skip the model (checks only). */
   noModel?: boolean;
   progress?: ProgressSink;
@@ -91,6 +94,8 @@ export interface AuditGraphOptions extends AuditOptions {
 /** What the audit needs from the rest of plumb. */
 export interface AuditSteps {
   fit: FitFunction;
+  /** True when `fit` and `rank` are plumb's own, so folds may run in worker threads (which load those). */
+  workers?: boolean;
   rank?: RankFunction;
   checks?: (graph: Graph, schemaGraphs: readonly Graph[], shapesGraphs: readonly Graph[], progress: ProgressSink) => Promise<{ findings: Finding[]; checks: CheckInfo[] }>;
 }
@@ -133,7 +138,7 @@ async function scoreGraph(
   steps: AuditSteps,
   progress: ProgressSink,
   keepModels: boolean,
-): Promise<{ oof: OutOfFoldScores & { fold: Int8Array }; plaus: Float64Array; backend: BackendName; folds: number; fitSeconds: number; scoreSeconds: number; models: Map<number, TrainedModel> }> {
+): Promise<{ oof: OutOfFoldScores & { fold: Int8Array }; plaus: Float64Array; backend: BackendName; folds: number; fitSeconds: number; scoreSeconds: number; models: Map<number, TrainedModel>; release: () => Promise<void> }> {
   const basis = resolveBasis(graph, options);
   const needRanks = basis !== 'logit';
   const models = new Map<number, TrainedModel>();
@@ -160,10 +165,12 @@ async function scoreGraph(
     }
     const plaus = calibrated(oof, basis);
     models.set(-1, model);
-    return { oof, plaus, backend: model.backend, folds: 0, fitSeconds: 0, scoreSeconds: (performance.now() - started) / 1000, models };
+    return { oof, plaus, backend: model.backend, folds: 0, fitSeconds: 0, scoreSeconds: (performance.now() - started) / 1000, models, release: async () => {} };
   }
+  const folds = options.folds ?? AUDIT_DEFAULTS.folds;
   const cf: CrossFitResult = await crossFit(graph, {
-    folds: options.folds ?? AUDIT_DEFAULTS.folds,
+    folds,
+    workers: options.workers ?? (steps.workers ? defaultWorkers(folds) : 0),
     seed: options.seed ?? AUDIT_DEFAULTS.seed,
     ...(options.model ? { model: options.model } : {}),
     ...(options.backend ? { backend: options.backend } : {}),
@@ -177,7 +184,12 @@ async function scoreGraph(
     ...(keepModels ? { keep: (fold: number, model: TrainedModel) => models.set(fold, model) } : {}),
   });
   const oof = { ...cf, fold: Int8Array.from(cf.fold) };
-  return { oof, plaus: calibrated(oof, basis), backend: cf.backend, folds: cf.folds, fitSeconds: cf.seconds.fit, scoreSeconds: cf.seconds.score, models };
+  const release = async (): Promise<void> => {
+    for (const [key, model] of models) if (key >= 0) model.dispose();
+    models.clear();
+    for (const w of cf.workers) await w.stop();
+  };
+  return { oof, plaus: calibrated(oof, basis), backend: cf.backend, folds: cf.folds, fitSeconds: cf.seconds.fit, scoreSeconds: cf.seconds.score, models, release };
 }
 
 /** The basis in force: the one asked for, else by the cost of ranking (see chooseBasis). */
@@ -426,7 +438,7 @@ export async function auditGraphDetailed(graph: Graph, options: AuditGraphOption
         list.forEach((t, i) => explanations.set(t, ex[i]!));
       }
     } finally {
-      for (const [key, model] of scored.models) if (key >= 0) model.dispose();
+      await scored.release();
     }
     durations.explain = round((performance.now() - explainStarted) / 1000, 3);
     suspects = top.map((j, i) => suspectFinding(graph, oof.triples[j]!, plaus[j]!, i + 1, explanations.get(oof.triples[j]!)));
@@ -581,6 +593,7 @@ function reportedOptions(graph: Graph, options: AuditGraphOptions): Record<strin
 export function defaultSteps(checkOptions: RunChecksOptions = {}): AuditSteps {
   return {
     fit,
+    workers: true,
     rank: (model, graph, triples) => filteredRanks(model, graph, triples),
     checks: async (graph, schemaGraphs, shapesGraphs, progress) => {
       const result = await checkGraph(graph, schemaGraphs, shapesGraphs, progress, checkOptions);

@@ -35,6 +35,8 @@ export interface CompareOptions {
   backend?: BackendName | 'auto';
   /** Time budget per model method (seconds, all folds together). */
   maxSeconds?: number;
+  /** Worker threads for the model methods' folds (plumb's own fit only); default 0. */
+  workers?: number;
   progress?: ProgressSink;
   fit?: FitFunction;
   rank?: RankFunction;
@@ -69,6 +71,7 @@ export async function methodSuspicion(graph: Graph, method: DetectionMethod, opt
         model: { ...options.model, encoder: method === 'rgcn' ? 'rgcn' : 'none' },
         ...(options.backend ? { backend: options.backend } : {}),
         warmStart: options.warmStart ?? 'none',
+        ...(options.workers ? { workers: options.workers } : {}),
         ranks: basis !== 'logit',
         ...(options.maxSeconds !== undefined ? { maxSeconds: options.maxSeconds } : {}),
         ...(options.progress ? { progress: options.progress } : {}),

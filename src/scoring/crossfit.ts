@@ -4,6 +4,7 @@ import { Random } from '../model/random.js';
 import type { BackendName, FitOptions, ModelConfig, TrainedModel } from '../model/types.js';
 import type { ProgressSink } from '../progress.js';
 import type { OutOfFoldScores } from './plausibility.js';
+import { FoldWorker, type PlainFitOptions } from './fold-worker.js';
 
 /**
  * Out-of-fold scoring: a model that has trained on a triple, or passed messages along it, vouches for
@@ -61,6 +62,12 @@ export interface CrossFitOptions {
    * explain suspects with the model that did not see them. Without it, fold models are disposed.
    */
   keep?: (fold: number, model: TrainedModel) => void;
+  /**
+   * Worker threads to fit folds in, each with its own TensorFlow.js (one core each); 0 (default) fits
+   * them here with `fit`. Workers always use plumb's own `fit` and `filteredRanks`, and only run
+   * without warm starts.
+   */
+  workers?: number;
 }
 
 export interface CrossFitResult extends OutOfFoldScores {
@@ -70,9 +77,20 @@ export interface CrossFitResult extends OutOfFoldScores {
   backend: BackendName;
   /** Seconds spent fitting and scoring, all folds together. */
   seconds: { fit: number; score: number };
-  /** Epochs each fold model trained (from its history). */
+  /** Epochs each fold model trained (from its history), by fold. */
   epochs: number[];
   config: ModelConfig | undefined;
+  /**
+   * The worker threads that fitted the folds; with `keep`, the caller stops them (`stop()`) once the
+   * models it kept are no longer needed. Empty when the folds ran in this thread.
+   */
+  workers: FoldWorker[];
+}
+
+interface FoldOutcome {
+  model: TrainedModel;
+  logits: Float32Array;
+  ranks: { subjectRank: Float64Array; objectRank: Float64Array } | undefined;
 }
 
 /** Triples whose subject and object are resources (IRIs or blank nodes): the ones a model can score. */
@@ -204,55 +222,95 @@ export async function crossFit(graph: Graph, options: CrossFitOptions): Promise<
     }
   }
 
-  try {
-    for (let f = 0; f < k; f++) {
-      const exclude = new Uint8Array(graph.size);
-      const members: number[] = [];
-      for (let i = 0; i < graph.size; i++) {
-        if (foldOf[i] === f) {
-          exclude[i] = 1;
-          members.push(i);
-        }
-      }
-      const extra: FitOptions = { seed: seed + f };
-      const start = halfModels[f < k / 2 ? 0 : 1];
-      if (start) {
-        extra.warmStart = start;
-        const full = options.model?.epochs ?? start.config.epochs;
-        extra.epochs = Math.max(1, Math.round(full * (options.warmEpochShare ?? 0.3)));
-      }
-      const model = await timedFit(exclude, extra, `fold ${f + 1}/${k}`);
-      let kept = false;
-      try {
-        epochs.push(model.history.length === 0 ? 0 : model.history[model.history.length - 1]!.epoch);
-        const started = performance.now();
-        const foldTriples = Int32Array.from(members);
-        const logits = await scoreTriples(model, graph, foldTriples);
-        let ranks: Awaited<ReturnType<RankFunction>> | undefined;
-        if (options.ranks && options.rank) ranks = await options.rank(model, graph, foldTriples);
-        foldTriples.forEach((t, j) => {
-          const at = position[t]!;
-          logit[at] = logits[j]!;
-          if (ranks && subjectRank && objectRank) {
-            subjectRank[at] = ranks.subjectRank[j]!;
-            objectRank[at] = ranks.objectRank[j]!;
-          }
-        });
-        scoreSeconds += (performance.now() - started) / 1000;
-        progress({ phase: 'score', done: f + 1, total: k });
-        if (options.keep) {
-          options.keep(f, model);
-          kept = true;
-        }
-      } finally {
-        if (!kept) model.dispose();
-      }
+  // A fold runs either here (the injected fit) or in a worker thread (plumb's own fit, one core each).
+  const runHere = async (f: number, exclude: Uint8Array, foldTriples: Int32Array): Promise<FoldOutcome> => {
+    const extra: FitOptions = { seed: seed + f };
+    const start = halfModels[f < k / 2 ? 0 : 1];
+    if (start) {
+      extra.warmStart = start;
+      const full = options.model?.epochs ?? start.config.epochs;
+      extra.epochs = Math.max(1, Math.round(full * (options.warmEpochShare ?? 0.3)));
     }
+    const model = await timedFit(exclude, extra, `fold ${f + 1}/${k}`);
+    try {
+      const started = performance.now();
+      const logits = await scoreTriples(model, graph, foldTriples);
+      const ranks = options.ranks && options.rank ? await options.rank(model, graph, foldTriples) : undefined;
+      scoreSeconds += (performance.now() - started) / 1000;
+      return { model, logits, ranks };
+    } catch (error) {
+      model.dispose();
+      throw error;
+    }
+  };
+  const runThere = (worker: FoldWorker) => async (f: number, exclude: Uint8Array, foldTriples: Int32Array): Promise<FoldOutcome> => {
+    const label = `fold ${f + 1}/${k}`;
+    worker.progress = (e) => progress({ ...e, phase: 'fit', detail: `${label}${e.detail ? ` ${e.detail}` : ''}` });
+    const started = performance.now();
+    const plain: PlainFitOptions = { ...base, seed: seed + f, exclude };
+    const { model, reply } = await worker.fit(graph, plain, foldTriples, options.ranks === true);
+    fitSeconds += (performance.now() - started) / 1000;
+    fitsDone++;
+    progress({ phase: 'folds', done: fitsDone, total: fitsPlanned, detail: label });
+    backend = model.backend;
+    config = model.config;
+    candidates = model.entities.count;
+    const ranks = reply.subjectRank && reply.objectRank ? { subjectRank: reply.subjectRank, objectRank: reply.objectRank } : undefined;
+    return { model, logits: reply.logits, ranks };
+  };
+
+  const wanted = warm === 'none' ? Math.min(options.workers ?? 0, k) : 0;
+  const workers: FoldWorker[] = [];
+  try {
+    for (let w = 0; w < wanted; w++) workers.push(await FoldWorker.start(graph));
+    const runners = workers.length > 0 ? workers.map(runThere) : [runHere];
+    const queue = Array.from({ length: k }, (_, f) => f);
+    await Promise.all(
+      runners.map(async (runner) => {
+        for (let f = queue.shift(); f !== undefined; f = queue.shift()) {
+          const exclude = new Uint8Array(graph.size);
+          const members: number[] = [];
+          for (let i = 0; i < graph.size; i++) {
+            if (foldOf[i] === f) {
+              exclude[i] = 1;
+              members.push(i);
+            }
+          }
+          const foldTriples = Int32Array.from(members);
+          const { model, logits, ranks } = await runner(f, exclude, foldTriples);
+          let kept = false;
+          try {
+            epochs[f] = model.history.length === 0 ? 0 : model.history[model.history.length - 1]!.epoch;
+            foldTriples.forEach((t, j) => {
+              const at = position[t]!;
+              logit[at] = logits[j]!;
+              if (ranks && subjectRank && objectRank) {
+                subjectRank[at] = ranks.subjectRank[j]!;
+                objectRank[at] = ranks.objectRank[j]!;
+              }
+            });
+            progress({ phase: 'score', done: epochs.filter((e) => e !== undefined).length, total: k });
+            if (options.keep) {
+              options.keep(f, model);
+              kept = true;
+            }
+          } finally {
+            if (!kept) model.dispose();
+          }
+        }
+      }),
+    );
+  } catch (error) {
+    for (const w of workers) await w.stop();
+    throw error;
   } finally {
     for (const m of halfModels) m?.dispose();
   }
+  // Workers whose models were handed out stay up until the caller disposes those models.
+  if (!options.keep) for (const w of workers) await w.stop();
 
   const result: CrossFitResult = {
+    workers,
     triples: scored,
     predicate: Int32Array.from(scored, (t) => graph.p[t]!),
     logit,
