@@ -51,15 +51,15 @@ export async function openInput(
 class StoredBytes implements OpenedInput {
   bytes = 0;
   compressed = false;
+  /** Readable once. */
+  readonly chunks: AsyncIterable<Uint8Array>;
   private readonly hash: Hash = createHash('sha256');
   constructor(
     readonly path: string,
     readonly size: number | undefined,
     private readonly source: AsyncIterable<Uint8Array>,
-  ) {}
-
-  get chunks(): AsyncIterable<Uint8Array> {
-    return this.read();
+  ) {
+    this.chunks = this.read();
   }
 
   sha256(): string {
