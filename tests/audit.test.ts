@@ -121,3 +121,66 @@ describe('rankFindings', () => {
     expect(ranked.map((x) => x.triple)).toEqual([4, 5, 3, 2, 1]);
   });
 });
+
+describe('plumb corrupt → plumb audit → plumb evaluate (CLI)', () => {
+  it('writes a corrupted copy and truth file, audits it, and measures the audit against the truth', async () => {
+    const { runCli } = await import('./helpers/cli.js');
+    const { mkdtemp, readFile, rm } = await import('node:fs/promises');
+    const { tmpdir } = await import('node:os');
+    const { join, resolve } = await import('node:path');
+    const dir = await mkdtemp(join(tmpdir(), 'plumb-audit-cli-'));
+    try {
+      // Source: Nations (Kemp et al. 2006), train split as distributed since Dettmers et al. 2018.
+      const nations = resolve(import.meta.dirname, '../../shared/datasets/nations/train.txt');
+      const corrupt = await runCli(['corrupt', nations, '--rate', '0.05', '--kind', 'random,range', '--out', 'nations.tsv', '--truth', 'truth.tsv', '--seed', '3'], { cwd: dir });
+      expect(corrupt.stderr).toMatch(/added 80 errors \(40 random, 40 range\) to 1592 triples/);
+      expect(corrupt.exitCode).toBe(0);
+      const truth = (await readFile(join(dir, 'truth.tsv'), 'utf8')).trim().split('\n');
+      expect(truth[0]).toBe('subject\tpredicate\tobject\tgraph\tkind\treplaced\toriginal');
+      expect(truth).toHaveLength(81);
+      // TSV in, TSV out: bare names as in the dataset.
+      const copy = (await readFile(join(dir, 'nations.tsv'), 'utf8')).trim().split('\n');
+      expect(copy).toHaveLength(1672);
+      expect(copy[0]).toMatch(/^[a-z]+\t[a-z0-9]+\t[a-z]+$/);
+
+      const audit = await runCli(['audit', 'nations.tsv', '--folds', '2', '--epochs', '3', '--no-calibrate', '--top', '20', '--out', 'out', '--format', 'json,markdown', '--workers', '0'], { cwd: dir });
+      expect(audit.stderr).toMatch(/wrote .*report\.json.*scores\.tsv/);
+      expect(audit.exitCode).toBe(0);
+      expect(audit.stdout).toMatch(/1,672 triples scored by the model/);
+      const report = JSON.parse(await readFile(join(dir, 'out', 'report.json'), 'utf8'));
+      expect(report.folds).toBe(2);
+      expect(report.findings.filter((f: { kind: string }) => f.kind === 'suspect').length).toBeLessThanOrEqual(20);
+      const scores = (await readFile(join(dir, 'out', 'scores.tsv'), 'utf8')).trim().split('\n');
+      expect(scores).toHaveLength(1673);
+
+      const evaluate = await runCli(['evaluate', '--truth', 'truth.tsv', '--report', 'out/report.json', '--json'], { cwd: dir });
+      expect(evaluate.exitCode).toBe(0);
+      const metrics = JSON.parse(evaluate.stdout);
+      expect(metrics.errors).toBe(80);
+      expect(metrics.total).toBe(1672);
+      expect(metrics.unranked).toBe(0);
+      expect(Object.keys(metrics.byKind)).toEqual(['random', 'range']);
+      for (const key of ['ap', 'rocAuc', 'precisionAtK', 'recallAt1pct']) expect(metrics[key]).toBeTypeOf('number');
+
+      const text = await runCli(['evaluate', '--truth', 'truth.tsv', '--report', 'out/report.json'], { cwd: dir });
+      expect(text.stdout).toMatch(/^\s+errors\s+AP\s+ROC-AUC\s+P@K\s+R@1%/);
+      const missing = await runCli(['evaluate', '--truth', 'truth.tsv', '--report', 'nowhere/report.json'], { cwd: dir });
+      expect(missing.exitCode).toBe(2);
+      expect(missing.stderr).toMatch(/cannot read the report/);
+      const both = await runCli(['evaluate', '--truth', 'truth.tsv'], { cwd: dir });
+      expect(both.exitCode).toBe(2);
+      expect(both.stderr).toMatch(/either --report/);
+    } finally {
+      await rm(dir, { recursive: true, force: true });
+    }
+  }, 300_000);
+
+  it('refuses bad corrupt options with a hint', async () => {
+    const { runCli } = await import('./helpers/cli.js');
+    const bad = await runCli(['corrupt', 'x.nt', '--rate', '2', '--out', 'o.nt', '--truth', 't.tsv']);
+    expect(bad.exitCode).toBe(2);
+    expect(bad.stderr).toMatch(/--rate 2 is out of range/);
+    const kind = await runCli(['corrupt', 'x.nt', '--rate', '0.1', '--kind', 'typo', '--out', 'o.nt', '--truth', 't.tsv']);
+    expect(kind.stderr).toMatch(/unknown error kind "typo"/);
+  });
+});
