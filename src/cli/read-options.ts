@@ -5,14 +5,15 @@ import type { CliIO } from './io.js';
 
 /**
  * The flags every command that reads a graph shares (`stats`, `check`, `audit`, `fit`, `gate`, …):
- * one definition here, so they read and mean the same everywhere.
+ * one definition here, so they read and mean the same everywhere. The input format is
+ * `--input-format`, because `--format` names the report formats of the commands that write reports;
+ * a command that writes none may also take `--format` for it (`{ format: true }`).
  */
-export function addReadOptions(command: Command): Command {
+export function addReadOptions(command: Command, options: { format?: boolean } = {}): Command {
+  const formats = 'ntriples, nquads, turtle, trig, csv, tsv';
+  command.option('--input-format <format>', `input format when the extension does not say: ${formats}`);
+  if (options.format) command.option('--format <format>', 'the same as --input-format');
   return command
-    .option(
-      '--format <format>',
-      'input format when the extension does not say: ntriples, nquads, turtle, trig, csv, tsv',
-    )
     .option(
       '--columns <columns>',
       'CSV/TSV: subject,predicate,object[,graph] by header name, or 0,1,2 by position',
@@ -33,7 +34,8 @@ export function addReadOptions(command: Command): Command {
 /** The reading flags as {@link ReadOptions}; standard input is the CLI's. Throws a usage error for an unknown format. */
 export function toReadOptions(flags: Record<string, unknown>, io: CliIO): ReadOptions {
   const options: ReadOptions = { stdin: io.stdin };
-  if (typeof flags.format === 'string') options.format = parseFormatName(flags.format);
+  const format = typeof flags.inputFormat === 'string' ? flags.inputFormat : flags.format;
+  if (typeof format === 'string') options.format = parseFormatName(format);
   if (typeof flags.columns === 'string') options.columns = flags.columns;
   if (typeof flags.delimiter === 'string') options.delimiter = flags.delimiter;
   if (typeof flags.header === 'boolean') options.header = flags.header;

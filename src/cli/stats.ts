@@ -31,7 +31,7 @@ export const registerStats: RegisterCommand = (program: Command, { io, setExitCo
       'graph files (N-Triples, N-Quads, Turtle, TriG, CSV, TSV; .gz too), or - for standard input',
     )
     .option('--json', 'print the profile as one JSON object on stdout');
-  addReadOptions(command);
+  addReadOptions(command, { format: true });
   command.addHelpText('after', HELP);
   command.action(async (files: string[], flags: Record<string, unknown>) => {
     const progress = createProgressSink(io);
