@@ -79,6 +79,8 @@ export async function gateDetailed(incoming: readonly string[], options: GateRun
     const backend = options.backend;
     steps.fit = (g, fitOptions = {}) =>
       loadModel(modelDir, g, { ...(backend ? { backend } : {}), ...(fitOptions.exclude ? { exclude: fitOptions.exclude } : {}) });
+    // Fold workers would fit with plumb's own fit; loading is quick, so the folds stay in this thread.
+    steps.workers = false;
   }
   const rejections = [...incomingRead.rejections, ...(schemaRead?.rejections ?? []), ...(shapesRead?.rejections ?? [])];
   const run = await auditGraphDetailed(graph, {

@@ -114,7 +114,7 @@ export const registerDemo: RegisterCommand = (program, { io, setExitCode }) => {
     .option('--out <dir>', 'folder for the data, the model and the reports', 'reports/demo')
     .option('--scale <s>', 'size of the scenario: 1 is about 30,000 base triples', '1')
     .option('--seed <n>', 'seed of the scenario and the model', String(DEFAULT_SEED))
-    .option('--fast', 'a smaller model and no trust figure: about half the time, a rougher ranking');
+    .option('--fast', 'fewer epochs and no trust figure: about half the time, a rougher ranking');
   command.addHelpText('after', HELP);
   command.action(async (flags: DemoFlags) => {
     const scale = scaleOf(flags.scale);
