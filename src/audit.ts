@@ -1,6 +1,7 @@
 import type { Finding, Severity } from './findings.js';
 import { severityRank } from './findings.js';
-import type { Graph } from './graph/store.js';
+import { row, type Graph } from './graph/store.js';
+import { Random } from './model/random.js';
 import type { Accounting, AuditReport, CheckInfo, InputInfo, PredicateRow, TrustFigure } from './result.js';
 import type { ProgressSink } from './progress.js';
 import type { BackendName, ModelConfig, TrainedModel } from './model/types.js';
@@ -176,7 +177,7 @@ async function scoreGraph(
     ...(options.backend ? { backend: options.backend } : {}),
     warmStart: options.warmStart ?? AUDIT_DEFAULTS.warmStart,
     ranks: needRanks,
-    ...(options.only ? { only: options.only } : {}),
+    ...(options.only ? { only: withReference(graph, options.only, options.seed ?? AUDIT_DEFAULTS.seed) } : {}),
     ...(options.maxSeconds !== undefined ? { maxSeconds: options.maxSeconds } : {}),
     progress,
     fit: steps.fit,
@@ -190,6 +191,39 @@ async function scoreGraph(
     for (const w of cf.workers) await w.stop();
   };
   return { oof, plaus: calibrated(oof, basis), backend: cf.backend, folds: cf.folds, fitSeconds: cf.seconds.fit, scoreSeconds: cf.seconds.score, models, release };
+}
+
+/**
+ * With `only`, plausibility must place the reported triples among the graph's triples, not among each
+ * other (ten incoming triples would always have a "worst" one). So a sample of context triples is
+ * scored out-of-fold too — up to {@link REFERENCE_PER_PREDICATE} of each predicate the reported triples
+ * use, and {@link REFERENCE_GLOBAL} drawn from the whole graph — and serves as the reference; those
+ * triples are never reported.
+ */
+export const REFERENCE_PER_PREDICATE = 200;
+
+/** The reported triples and their reference sample: what gets scored. */
+function withReference(graph: Graph, only: Uint8Array, seed: number): Uint8Array {
+  const reference = referenceSample(graph, only, seed);
+  return reference.map((r, i) => r | (only[i] ? 1 : 0));
+}
+export const REFERENCE_GLOBAL = 1000;
+
+export function referenceSample(graph: Graph, only: Uint8Array, seed: number): Uint8Array {
+  const scorable = scorableTriples(graph);
+  const random = new Random(seed + 104_729);
+  const out = new Uint8Array(graph.size);
+  const predicates = new Set<number>();
+  for (let i = 0; i < graph.size; i++) if (only[i] && scorable[i]) predicates.add(graph.p[i]!);
+  const take = (candidates: number[], n: number): void => {
+    random.shuffle(candidates);
+    for (const t of candidates.slice(0, n)) out[t] = 1;
+  };
+  for (const p of predicates) take(Array.from(row(graph.byPredicate, p)).filter((t) => scorable[t] && !only[t]), REFERENCE_PER_PREDICATE);
+  const rest: number[] = [];
+  for (let i = 0; i < graph.size; i++) if (scorable[i] && !only[i] && !out[i]) rest.push(i);
+  take(rest, REFERENCE_GLOBAL);
+  return out;
 }
 
 /** The basis in force: the one asked for, else by the cost of ranking (see chooseBasis). */
@@ -408,7 +442,15 @@ export async function auditGraphDetailed(graph: Graph, options: AuditGraphOption
     backend = scored.backend;
     folds = scored.folds;
     const { oof, plaus } = scored;
-    scores = { triples: oof.triples, plausibility: plaus, logit: oof.logit, fold: oof.fold, order: new Int32Array(oof.triples.length) };
+    // Reference triples (with `only`) calibrate the others but are not reported.
+    const kept = Array.from(oof.triples.keys()).filter((j) => reported(oof.triples[j]));
+    scores = {
+      triples: Int32Array.from(kept, (j) => oof.triples[j]!),
+      plausibility: Float64Array.from(kept, (j) => plaus[j]!),
+      logit: Float32Array.from(kept, (j) => oof.logit[j]!),
+      fold: Int8Array.from(kept, (j) => oof.fold[j]!),
+      order: new Int32Array(kept.length),
+    };
     const threshold = options.threshold ?? AUDIT_DEFAULTS.threshold;
     const order: number[] = [];
     oof.triples.forEach((t, j) => {
@@ -417,7 +459,7 @@ export async function auditGraphDetailed(graph: Graph, options: AuditGraphOption
       plausibilityOf.set(t, p);
       if (p < threshold && reported(t)) order.push(j);
     });
-    histogramCounts = histogram(Array.from(oof.triples.keys()).filter((j) => reported(oof.triples[j])).map((j) => plaus[j]!));
+    histogramCounts = histogram(scores.plausibility);
     order.sort((a, b) => plaus[a]! - plaus[b]! || oof.triples[a]! - oof.triples[b]!);
     const top = order.slice(0, options.top ?? AUDIT_DEFAULTS.top);
     // Explain each suspect with the model that did not see it.
