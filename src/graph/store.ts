@@ -41,6 +41,13 @@ class Column<T extends Int32Array | Uint32Array | Uint16Array> {
   constructor(private readonly make: (n: number) => T) {
     this.data = make(1024);
   }
+  /** Makes room for `n` values in all, so that reading a large file grows the column once. */
+  reserve(n: number): void {
+    if (n <= this.data.length) return;
+    const next = this.make(n);
+    next.set(this.data.subarray(0, this.length));
+    this.data = next;
+  }
   push(v: number): void {
     if (this.length === this.data.length) {
       const next = this.make(this.data.length * 2);
@@ -140,6 +147,16 @@ export class GraphBuilder {
   addKeys(s: string, p: string, o: string, g?: string, file = 0, line = 0): boolean {
     const t = this.terms;
     return this.add(t.intern(s), t.intern(p), t.intern(o), g === undefined ? -1 : t.intern(g), file, line);
+  }
+
+  /**
+   * Makes room for about `triples` triples in all (an estimate: fewer is harmless, and spare room is
+   * dropped by {@link build}), so that a large read does not grow and rehash step by step.
+   */
+  reserve(triples: number): void {
+    const n = Math.min(Math.ceil(triples), 1 << 28);
+    for (const column of [this.s, this.p, this.o, this.g, this.file, this.line]) column.reserve(n);
+    while (n * 2 >= this.mask) this.grow();
   }
 
   private grow(): void {

@@ -321,9 +321,9 @@ class RdfReader {
       );
       return;
     }
-    if (this.lineMode) {
-      // n3 emits a quad before it has seen the final "." (N-Quads: as soon as the graph name is read),
-      // so a line-based statement counts only once its line proves well-formed.
+    if (this.format === 'nquads') {
+      // n3 emits a quad as soon as its graph name is read, before the final ".", so an N-Quads
+      // statement counts only once its line proves well-formed. (N-Triples emit on the ".".)
       this.pending[0] = s;
       this.pending[1] = p;
       this.pending[2] = o;
