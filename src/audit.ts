@@ -28,7 +28,11 @@ import { filteredRanks } from './scoring/ranking.js';
 
 /** Defaults chosen by measurement; see tests/outside/detection-*.test.ts and tests/bench/audit.ts. */
 export const AUDIT_DEFAULTS = {
-  folds: 5,
+  /**
+   * 3 folds: on corrupted UMLS and Kinship (5% random errors, 100 epochs per fold model) 5 folds gave
+   * AP 0.647 / 0.782 and 3 folds 0.635 / 0.775, for 60% of the fitting time.
+   */
+  folds: 3,
   warmStart: 'none' as WarmStart,
   /** `combined` where ranking every triple is affordable, else `logit` (see chooseBasis). */
   basis: 'auto' as PlausibilityBasis | 'auto',

@@ -3,7 +3,7 @@ import { dirname, join } from 'node:path';
 import type { Command } from 'commander';
 import { PlumbError } from '../errors.js';
 import { SCORES_FILE } from '../audit.js';
-import { compareMethods, comparisonJson, DETECTION_METHODS, evaluateRanking, formatComparison, parseScores, type DetectionMethod } from '../evaluation/compare.js';
+import { compareMethods, comparisonJson, DEFAULT_FOLDS, DETECTION_METHODS, evaluateRanking, formatComparison, parseScores, type DetectionMethod } from '../evaluation/compare.js';
 import { parseTruth, type TruthEntry } from '../evaluation/corrupt.js';
 import type { DetectionMetrics, DetectionTable } from '../evaluation/detection.js';
 import { fit } from '../model/index.js';
@@ -30,7 +30,7 @@ export function addDetectionOptions(command: Command): Command {
     .option('--report <file>', 'detection: an audit report.json; its ranking is read from scores.tsv beside it')
     .option('--baselines <file>', 'detection: rank this graph file with each method and compare (repeatable)', (v: string, prev: string[] = []) => [...prev, v])
     .option('--methods <list>', `detection with --baselines: methods to compare (${DETECTION_METHODS.join(', ')})`, DETECTION_METHODS.join(','))
-    .option('--folds <k>', 'detection with --baselines: folds for the out-of-fold models', '5')
+    .option('--folds <k>', 'detection with --baselines: folds for the out-of-fold models', String(DEFAULT_FOLDS))
     .option('--time-budget <seconds>', 'detection with --baselines: seconds per model method, all folds together');
 }
 
@@ -156,7 +156,7 @@ export async function runDetectionEvaluation(options: Record<string, unknown>, i
   if (missing === truth.length) {
     throw new PlumbError('E_INPUT', `none of the ${truth.length} truth triples is in the graph`, { hint: 'pass the corrupted graph that `plumb corrupt --out` wrote, read with the same options' });
   }
-  const folds = parseNumber('--folds', o.folds ?? '5', (x) => Number.isInteger(x) && x >= 2 && x <= 100, 'give a whole number from 2 to 100');
+  const folds = parseNumber('--folds', o.folds ?? String(DEFAULT_FOLDS), (x) => Number.isInteger(x) && x >= 2 && x <= 100, 'give a whole number from 2 to 100');
   const seed = o.seed === undefined ? 1 : parseNumber('--seed', o.seed, (x) => Number.isInteger(x) && x >= 0, 'give a whole number');
   const rows = await compareMethods(graph, kindOf, {
     methods: parseMethods(o.methods ?? DETECTION_METHODS.join(',')),

@@ -12,6 +12,9 @@ import { PlumbError } from '../errors.js';
  * Baselines side by side: every method ranks the same corrupted graph's scorable triples (subject and
  * object both resources), and the same metrics measure each against the same truth.
  */
+/** As the audit's default (see AUDIT_DEFAULTS in src/audit.ts). */
+export const DEFAULT_FOLDS = 3;
+
 export type DetectionMethod = 'random' | 'degree' | 'type-distribution' | 'distmult' | 'rgcn';
 export const DETECTION_METHODS: readonly DetectionMethod[] = ['random', 'degree', 'type-distribution', 'distmult', 'rgcn'];
 
@@ -66,7 +69,7 @@ export async function methodSuspicion(graph: Graph, method: DetectionMethod, opt
       const scorable = scorableTriples(graph);
       const basis = options.basis ?? chooseBasis(scorable.reduce((a, b) => a + b, 0), entityCount(graph, scorable));
       const result = await crossFit(graph, {
-        folds: options.folds ?? 5,
+        folds: options.folds ?? DEFAULT_FOLDS,
         seed: options.seed ?? 1,
         model: { ...options.model, encoder: method === 'rgcn' ? 'rgcn' : 'none' },
         ...(options.backend ? { backend: options.backend } : {}),

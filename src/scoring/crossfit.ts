@@ -37,7 +37,7 @@ export type WarmStart = 'none' | 'half';
 export const FOLD_MODEL_DEFAULTS: Partial<ModelConfig> = { patience: 20 };
 
 export interface CrossFitOptions {
-  /** Number of folds k (at least 2). */
+  /** Number of folds k (at least 2; default 3). */
   folds?: number;
   seed?: number;
   /** Model settings for every fold model. */
@@ -161,7 +161,7 @@ export async function scoreTriples(model: TrainedModel, graph: Graph, triples: I
  * triple the fold model could not place (a predicate it does not model) keeps a NaN logit.
  */
 export async function crossFit(graph: Graph, options: CrossFitOptions): Promise<CrossFitResult> {
-  const k = options.folds ?? 5;
+  const k = options.folds ?? 3;
   if (!Number.isInteger(k) || k < 2 || k > 100) throw new RangeError(`folds must be an integer from 2 to 100, not ${k}`);
   if (options.ranks && !options.rank) throw new Error('crossFit: ranks requested without a rank function');
   const seed = options.seed ?? options.model?.seed ?? 1;
