@@ -34,6 +34,17 @@ describe('GraphBuilder', () => {
     expect(g.bySubject.triples.byteLength).toBe(3000 * 4);
   });
 
+  it('reserves room in advance and still drops duplicates and spare room', () => {
+    const b = new GraphBuilder();
+    b.addKeys('http://x/a', 'http://x/p', 'http://x/b');
+    b.reserve(50_000);
+    for (let i = 0; i < 100; i++) b.addKeys('http://x/a', 'http://x/p', `http://x/${i % 10}`);
+    expect(b.size).toBe(11);
+    expect(b.duplicates).toBe(90);
+    const g = b.build();
+    expect(g.s.byteLength).toBe(11 * 4);
+  });
+
   it('indexes triples by subject, object and predicate', () => {
     const g = graphFromKeys([
       ['http://x/a', 'http://x/p', 'http://x/b'],
