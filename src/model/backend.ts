@@ -87,11 +87,60 @@ export function currentBackend(): BackendName | undefined {
 
 let registered = false;
 
+type WasmBackendLike = {
+  makeOutput(shape: number[], dtype: tf.DataType): tf.TensorInfo;
+  typedArrayFromHeap(t: tf.TensorInfo): Float32Array | Int32Array | Uint8Array;
+};
+
+/**
+ * Copies x[begin : begin + size] into a new tensor through views of the WebAssembly heap. The
+ * backend's own Slice reads the whole input out of the heap first (a full copy per call), which
+ * makes a loop of slices over a large tensor quadratic; this copies only what it returns.
+ */
+function sliceFromHeap(backend: WasmBackendLike, x: tf.TensorInfo, begin: number[], size: number[]): tf.TensorInfo {
+  const [b, s] = tf.slice_util.parseSliceParams(x as tf.Tensor, begin, size) as [number[], number[]];
+  // Allocate first: growing the heap detaches every view taken before.
+  const out = backend.makeOutput(s, x.dtype);
+  const total = tf.util.sizeFromShape(s);
+  if (total === 0) return out;
+  const from = backend.typedArrayFromHeap(x);
+  const into = backend.typedArrayFromHeap(out);
+  const rank = x.shape.length;
+  const strides = tf.util.computeStrides(x.shape);
+  if (tf.slice_util.isSliceContinous(x.shape, b, s)) {
+    const offset = tf.slice_util.computeFlatOffset(b, strides);
+    into.set(from.subarray(offset, offset + total));
+    return out;
+  }
+  const run = s[rank - 1]!;
+  const index = new Array<number>(Math.max(0, rank - 1)).fill(0);
+  for (let at = 0; at < total; at += run) {
+    let offset = b[rank - 1]!;
+    for (let d = 0; d < rank - 1; d++) offset += (b[d]! + index[d]!) * strides[d]!;
+    into.set(from.subarray(offset, offset + run), at);
+    for (let d = rank - 2; d >= 0; d--) {
+      if (++index[d]! < s[d]!) break;
+      index[d] = 0;
+    }
+  }
+  return out;
+}
+
+/** Replaces a wasm kernel, keeping the original for inputs the replacement does not handle (strings). */
+function replaceWasmKernel(name: string, kernelFunc: (args: { inputs: tf.NamedTensorInfoMap; backend: unknown; attrs: tf.NamedAttrMap }, original: tf.KernelFunc) => tf.TensorInfo | tf.TensorInfo[]): void {
+  const original = tf.getKernel(name, 'wasm');
+  if (original === undefined) return;
+  tf.unregisterKernel(name, 'wasm');
+  tf.registerKernel({ kernelName: name, backendName: 'wasm', kernelFunc: (args) => kernelFunc(args as never, original.kernelFunc) });
+}
+
 /**
  * What the WebAssembly backend lacks for training, built from kernels it has:
  * - `UnsortedSegmentSum` (needed by the gradient of `tf.gather`) on `ScatterNd`, which sums
  *   duplicate indices. ScatterNd does not check bounds: segment ids must lie in [0, numSegments).
  * - the gradient of `GatherNd` (none in tfjs-core 4.22): `scatterND` of the upstream gradient.
+ * - `Slice`, `SplitV` and `Unpack` that copy only what they return (see {@link sliceFromHeap}):
+ *   500 slices of 170 rows from an [86k, 100] tensor took 65 s with the backend's own kernel.
  */
 export function registerMissingKernels(): void {
   if (registered) return;
@@ -116,6 +165,44 @@ export function registerMissingKernels(): void {
         b.disposeData(updates.dataId);
         return out;
       },
+    });
+  }
+  if (tf.findBackendFactory('wasm') !== null) {
+    replaceWasmKernel('Slice', (args, original) => {
+      const { x } = args.inputs as { x: tf.TensorInfo };
+      if (x.dtype === 'string') return original(args as never);
+      const { begin, size } = args.attrs as { begin: number[]; size: number[] };
+      return sliceFromHeap(args.backend as WasmBackendLike, x, begin, size);
+    });
+    replaceWasmKernel('SplitV', (args, original) => {
+      const { x } = args.inputs as { x: tf.TensorInfo };
+      if (x.dtype === 'string') return original(args as never);
+      const { numOrSizeSplits, axis } = args.attrs as { numOrSizeSplits: number | number[]; axis: number };
+      const at = tf.util.parseAxisParam(axis, x.shape)[0]!;
+      const sizes = tf.backend_util.prepareSplitSize(x as tf.Tensor, numOrSizeSplits, at);
+      const begin = new Array<number>(x.shape.length).fill(0);
+      return sizes.map((n) => {
+        const size = [...x.shape];
+        size[at] = n;
+        const piece = sliceFromHeap(args.backend as WasmBackendLike, x, [...begin], size);
+        begin[at]! += n;
+        return piece;
+      });
+    });
+    replaceWasmKernel('Unpack', (args, original) => {
+      const { value } = args.inputs as { value: tf.TensorInfo };
+      if (value.dtype === 'string') return original(args as never);
+      let axis = (args.attrs as { axis: number }).axis;
+      if (axis < 0) axis += value.shape.length;
+      const outShape = value.shape.filter((_, d) => d !== axis);
+      const size = [...value.shape];
+      size[axis] = 1;
+      return Array.from({ length: value.shape[axis]! }, (_, i) => {
+        const begin = new Array<number>(value.shape.length).fill(0);
+        begin[axis] = i;
+        const piece = sliceFromHeap(args.backend as WasmBackendLike, value, begin, size);
+        return { dataId: piece.dataId, dtype: piece.dtype, shape: outShape };
+      });
     });
   }
   if (tf.getGradient('GatherNd') === undefined) {
