@@ -20,7 +20,7 @@ import { textBatches, type TextBatch } from './text.js';
 
 export type { InputFormat } from './format.js';
 export { INPUT_FORMATS, formatFromPath, parseFormatName } from './format.js';
-export type { Rejection } from './sink.js';
+export { MAX_REJECTIONS, type Rejection } from './sink.js';
 export { DEFAULT_BASE_IRI } from './csv.js';
 
 export interface ReadOptions {
@@ -46,6 +46,7 @@ export interface ReadOptions {
 export interface ReadResult {
   graph: Graph;
   accounting: Accounting;
+  /** Every rejected statement in reading order, up to {@link MAX_REJECTIONS} (`accounting.rejected` counts all). */
   rejections: Rejection[];
   inputs: InputInfo[];
 }

@@ -1,4 +1,4 @@
-import { lineAt, offsetAfterBreaks, type TextBatch } from './text.js';
+import { lineStarts, type TextBatch } from './text.js';
 
 /**
  * The recent text of one input, from the start of the statement being read, so that a reader can
@@ -8,6 +8,7 @@ import { lineAt, offsetAfterBreaks, type TextBatch } from './text.js';
 export class RetainedText {
   private batches: TextBatch[] = [];
   private chars = 0;
+  private readonly lineIndex = new WeakMap<TextBatch, Int32Array>();
 
   /** @param limit characters kept at most, newest first, even when a statement is longer (one huge Turtle statement). */
   constructor(private readonly limit = 64 * 1024 * 1024) {}
@@ -36,7 +37,7 @@ export class RetainedText {
     for (const batch of this.batches) {
       if (end(batch) < line) continue;
       if (batch.firstLine >= line) yield batch.text;
-      else yield batch.text.slice(offsetAfterBreaks(batch.text, line - batch.firstLine));
+      else yield batch.text.slice(this.start(batch, line));
     }
   }
 
@@ -44,8 +45,10 @@ export class RetainedText {
   line(line: number): string {
     for (const batch of this.batches) {
       if (line < batch.firstLine || line > end(batch)) continue;
-      const start = offsetAfterBreaks(batch.text, line - batch.firstLine);
-      if (start < batch.text.length) return lineAt(batch.text, start);
+      const starts = this.starts(batch);
+      const k = line - batch.firstLine;
+      if (k >= starts.length) continue;
+      return contentOf(batch.text, starts[k]!, k + 1 < starts.length ? starts[k + 1]! : batch.text.length);
     }
     return '';
   }
@@ -54,16 +57,42 @@ export class RetainedText {
   find(from: number, test: (content: string) => boolean): number {
     for (const batch of this.batches) {
       if (end(batch) < from) continue;
-      let line = Math.max(from, batch.firstLine);
-      let pos = offsetAfterBreaks(batch.text, line - batch.firstLine);
-      while (pos < batch.text.length) {
-        if (test(lineAt(batch.text, pos))) return line;
-        pos = offsetAfterBreaks(batch.text, 1, pos);
-        line++;
+      const starts = this.starts(batch);
+      for (let k = Math.max(0, from - batch.firstLine); k < starts.length; k++) {
+        const content = contentOf(
+          batch.text,
+          starts[k]!,
+          k + 1 < starts.length ? starts[k + 1]! : batch.text.length,
+        );
+        if (test(content)) return batch.firstLine + k;
       }
     }
     return -1;
   }
+
+  private start(batch: TextBatch, line: number): number {
+    const starts = this.starts(batch);
+    const k = line - batch.firstLine;
+    return k < starts.length ? starts[k]! : batch.text.length;
+  }
+
+  /** Where each line of a batch starts, computed once per batch and only when a reader looks back. */
+  private starts(batch: TextBatch): Int32Array {
+    let starts = this.lineIndex.get(batch);
+    if (starts === undefined) {
+      starts = lineStarts(batch.text);
+      this.lineIndex.set(batch, starts);
+    }
+    return starts;
+  }
+}
+
+/** A line's text between its start and the next line's start, without the line break. */
+function contentOf(text: string, from: number, to: number): string {
+  let end = to;
+  if (end > from && text.charCodeAt(end - 1) === 10) end--;
+  if (end > from && text.charCodeAt(end - 1) === 13) end--;
+  return text.slice(from, end);
 }
 
 /** The number of the line that follows the batch's text. */

@@ -2,6 +2,12 @@ import { PlumbError } from '../errors.js';
 import type { GraphBuilder } from '../graph/store.js';
 import { clip } from './text.js';
 
+/**
+ * Rejection records kept at most, across the files of one read; beyond it they are still counted. A
+ * file that is broken on every line should not take memory in proportion to its size.
+ */
+export const MAX_REJECTIONS = 100_000;
+
 /** A statement that could not be read, where it was and why. */
 export interface Rejection {
   file: string;
@@ -52,6 +58,7 @@ export class FileSink {
       });
     }
     this.rejected++;
-    this.rejections.push({ file: this.file, line, column, reason, text: clip(text) });
+    if (this.rejections.length < MAX_REJECTIONS)
+      this.rejections.push({ file: this.file, line, column, reason, text: clip(text) });
   }
 }

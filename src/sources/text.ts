@@ -54,17 +54,17 @@ export function countBreaks(text: string): number {
   return n;
 }
 
-/** Offset just after the `n`-th line break of `text` (0 for n = 0); `text.length` when there are fewer. */
-export function offsetAfterBreaks(text: string, n: number, from = 0): number {
-  let pos = from;
-  for (let k = 0; k < n; k++) {
-    const lf = text.indexOf('\n', pos);
-    const cr = text.indexOf('\r', pos);
-    if (lf === -1 && cr === -1) return text.length;
-    if (cr !== -1 && (lf === -1 || cr < lf)) pos = text.charCodeAt(cr + 1) === 10 ? cr + 2 : cr + 1;
-    else pos = lf + 1;
+/** The offset where each line of `text` starts (the first is 0); a text ending in a break has no empty last line. */
+export function lineStarts(text: string): Int32Array {
+  const starts: number[] = [0];
+  const n = text.length;
+  for (let i = 0; i < n; i++) {
+    const c = text.charCodeAt(i);
+    if (c === 10 || (c === 13 && text.charCodeAt(i + 1) !== 10)) {
+      if (i + 1 < n) starts.push(i + 1);
+    }
   }
-  return pos;
+  return Int32Array.from(starts);
 }
 
 /** The line of `text` that starts at `start`, without its line break. */
