@@ -52,6 +52,8 @@ function shown(path: string, io: CliIO): string {
   return rel !== '' && !rel.startsWith('..') && !isAbsolute(rel) ? rel : path;
 }
 
+const count = (n: number, word: string): string => `${formatCount(n)} ${word}${n === 1 ? '' : 's'}`;
+
 const seconds = (s: number | undefined): string => (s === undefined ? '–' : s < 10 ? `${s.toFixed(1)} s` : `${Math.round(s)} s`);
 
 /** What `plumb demo` prints on stdout once the run is done. */
@@ -67,7 +69,7 @@ export function demoSummary(r: DemoResult, io: CliIO): string {
   lines.push(`       base.nt ${formatCount(base.accepted)} triples, incoming.nt ${formatCount(inc.accepted)} triples with ${planted} planted errors (truth.json), ontology.ttl, shapes.ttl`);
 
   const a = r.audit.report.summary;
-  lines.push(`audit  the base graph: ${formatCount(a.findings)} findings (${formatCount(a.byKind.violation)} violations, ${formatCount(a.byKind.suspect)} suspects), ${formatCount(a.scored)} triples scored out-of-fold`);
+  lines.push(`audit  the base graph: ${count(a.findings, 'finding')} (${count(a.byKind.violation, 'violation')}, ${count(a.byKind.suspect, 'suspect')}), ${formatCount(a.scored)} triples scored out-of-fold`);
   if (a.trust) {
     lines.push(`       trust figure: of ${formatCount(a.trust.injected)} errors planted in a copy, ${formatShare(a.trust.precisionAtK)} came first (average precision ${formatShare(a.trust.averagePrecision)}, random order ${formatShare(a.trust.baseline)})`);
   }
@@ -78,8 +80,8 @@ export function demoSummary(r: DemoResult, io: CliIO): string {
   const g = r.gate.report.summary;
   const outcome = r.gate.report.gate;
   lines.push(
-    `gate   incoming.nt against the base, with the saved model: ${formatCount(g.findings)} findings ` +
-      `(${formatCount(g.bySeverity.error)} errors, ${formatCount(g.bySeverity.warning)} warnings, ${formatCount(g.bySeverity.note)} notes; ${formatCount(g.byKind.suspect)} suspects)`,
+    `gate   incoming.nt against the base, with the saved model: ${count(g.findings, 'finding')} ` +
+      `(${count(g.bySeverity.error, 'error')}, ${count(g.bySeverity.warning, 'warning')}, ${count(g.bySeverity.note, 'note')}; ${count(g.byKind.suspect, 'suspect')})`,
   );
   if (outcome) {
     lines.push(`       ${outcome.passed ? 'passed' : 'FAILED, as expected: the incoming file holds planted errors'}${outcome.crossed.length > 0 ? ` (${outcome.crossed.join('; ')})` : ''}`);
