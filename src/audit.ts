@@ -47,6 +47,12 @@ export const AUDIT_DEFAULTS = {
   calibrateUpTo: 20_000,
   /** Share planted for the trust figure, spread over the three kinds. */
   calibrateRate: 0.03,
+  /**
+   * Wall-clock seconds for all fold fits together (0: no limit). Small graphs never reach it; on a
+   * ~250k-triple graph it is what keeps the audit inside half an hour on a 2-core machine, and the
+   * fold models then get as many epochs as fit (the result depends on the machine's speed).
+   */
+  timeBudget: 1500,
 };
 
 export interface AuditOptions {
@@ -182,7 +188,7 @@ async function scoreGraph(
     warmStart: options.warmStart ?? AUDIT_DEFAULTS.warmStart,
     ranks: needRanks,
     ...(options.only ? { only: withReference(graph, options.only, options.seed ?? AUDIT_DEFAULTS.seed) } : {}),
-    ...(options.maxSeconds !== undefined ? { maxSeconds: options.maxSeconds } : {}),
+    maxSeconds: options.maxSeconds ?? AUDIT_DEFAULTS.timeBudget,
     progress,
     fit: steps.fit,
     ...(steps.rank ? { rank: steps.rank } : {}),
@@ -630,7 +636,7 @@ function reportedOptions(graph: Graph, options: AuditGraphOptions): Record<strin
   if (options.model) out.modelConfig = { ...options.model };
   if (options.trainedModel) out.modelConfig = { ...options.trainedModel.config };
   if (options.backend) out.backend = options.backend;
-  if (options.maxSeconds !== undefined) out.maxSeconds = options.maxSeconds;
+  out.timeBudget = options.maxSeconds ?? AUDIT_DEFAULTS.timeBudget;
   if (options.only) out.only = options.only.reduce((a, b) => a + b, 0);
   return out;
 }

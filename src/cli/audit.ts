@@ -123,7 +123,7 @@ export function auditOptions(flags: AuditFlags, io: CliIO): AuditRunOptions {
   if (flags.model !== undefined) options.modelDir = flags.model;
   if (flags.calibrate !== undefined) options.calibrate = flags.calibrate;
   if (flags.backend) options.backend = flags.backend;
-  if (flags.timeBudget !== undefined) options.maxSeconds = number('--time-budget', flags.timeBudget, (x) => x > 0, 'seconds for all model fits, e.g. --time-budget 600');
+  if (flags.timeBudget !== undefined) options.maxSeconds = number('--time-budget', flags.timeBudget, (x) => x >= 0, 'seconds for all fold fits, e.g. --time-budget 600, or 0 for no limit');
   if (flags.workers !== undefined) options.workers = integer('--workers', flags.workers, 0, 64);
   if (flags.closedWorld || flags.skip) options.checkOptions = { ...(flags.closedWorld ? { closedWorld: true } : {}), ...(flags.skip ? { skip: flags.skip } : {}) };
   return options;
@@ -185,7 +185,7 @@ export const registerAudit: RegisterCommand = (program, { io, setExitCode }) => 
     .option('--l2 <x>', 'L2 weight on the decoder inputs')
     .option('--negatives <n>', 'negative samples per positive')
     .addOption(new Option('--backend <backend>', 'TensorFlow.js backend').choices(['auto', 'tensorflow', 'wasm', 'cpu']))
-    .option('--time-budget <seconds>', 'seconds for all model fits together (each fold gets its share)')
+    .option('--time-budget <seconds>', `wall-clock seconds for all fold fits together, 0 for no limit (default ${AUDIT_DEFAULTS.timeBudget})`)
     .option('--workers <n>', 'worker threads fitting folds side by side (default: one per core, at most one per fold; 0: none)')
     .option('--summary-top <n>', 'findings listed in the terminal summary (default 10)');
   addAuditReadOptions(command);

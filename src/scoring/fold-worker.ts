@@ -79,6 +79,8 @@ interface FitReply {
   logits: Float32Array;
   subjectRank?: Float64Array;
   objectRank?: Float64Array;
+  /** Seconds spent scoring and ranking, after the fit. */
+  scoreSeconds: number;
 }
 
 type Reply =
@@ -115,12 +117,14 @@ async function serve(): Promise<void> {
               progress: (e) => port.postMessage({ id: -1, progress: e } satisfies Reply),
             });
             models.set(request.handle, m);
-            const reply: FitReply = { config: m.config, backend: m.backend, history: m.history, logits: await scoreTriples(m, graph, request.score) };
+            const scoring = performance.now();
+            const reply: FitReply = { config: m.config, backend: m.backend, history: m.history, logits: await scoreTriples(m, graph, request.score), scoreSeconds: 0 };
             if (request.ranks) {
               const r = await filteredRanks(m, graph, request.score);
               reply.subjectRank = r.subjectRank;
               reply.objectRank = r.objectRank;
             }
+            reply.scoreSeconds = (performance.now() - scoring) / 1000;
             value = reply;
             break;
           }
@@ -272,9 +276,12 @@ export class RemoteModel implements TrainedModel {
   }
 }
 
-/** Extra threads worth starting for k folds: one per spare core, at most k − 1. */
-export function defaultWorkers(folds: number): number {
-  return Math.max(0, Math.min(folds - 1, availableParallelism() - 1));
+/**
+ * Worker threads worth starting for k folds: one per core, at most k, and none on a single core (the
+ * main thread only waits while workers fit, so it needs no core of its own).
+ */
+export function defaultWorkers(folds: number, cores = availableParallelism()): number {
+  return cores < 2 ? 0 : Math.min(folds, cores);
 }
 
 const WORKER_MARK = 'plumbFoldWorker';
