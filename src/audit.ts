@@ -135,10 +135,10 @@ const MODEL_CHECK: CheckInfo = { id: 'model', title: 'The relational model finds
 
 const round = (x: number, digits = 4): number => (Number.isFinite(x) ? Number(x.toFixed(digits)) : x);
 
-/** Local name of a term for messages: after the last `#` or `/`. */
+/** Local name of a term for messages: after the last `#`, `/` or `:` (URNs). */
 export function shortName(key: string): string {
   if (key.startsWith('"') || key.startsWith('_:')) return key;
-  const cut = Math.max(key.lastIndexOf('#'), key.lastIndexOf('/'));
+  const cut = Math.max(key.lastIndexOf('#'), key.lastIndexOf('/'), key.lastIndexOf(':'));
   return cut >= 0 && cut < key.length - 1 ? key.slice(cut + 1) : key;
 }
 

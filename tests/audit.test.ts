@@ -191,3 +191,15 @@ describe('plumb corrupt → plumb audit → plumb evaluate (CLI)', () => {
     expect(kind.stderr).toMatch(/unknown error kind "typo"/);
   });
 });
+
+describe('shortName', () => {
+  it('keeps the local part of IRIs and URNs, and literals and blank nodes whole', async () => {
+    const { shortName } = await import('../src/audit.js');
+    expect(shortName('http://example.org/ns#stocks')).toBe('stocks');
+    expect(shortName('http://example.org/w/finch')).toBe('finch');
+    expect(shortName('urn:plumb:ngoorgs3')).toBe('ngoorgs3');
+    expect(shortName('"a/b"')).toBe('"a/b"');
+    expect(shortName('_:b0')).toBe('_:b0');
+    expect(shortName('http://example.org/')).toBe('http://example.org/');
+  });
+});
