@@ -3,7 +3,7 @@ import type { ModelConfig } from './types.js';
 
 /**
  * Defaults a user gets with no option. Chosen from the runs recorded in `tests/bench/model.ts` and
- * `tests/outside/linkpred-datasets.test.ts` (see the report there): one basis-decomposed layer is the
+ * `tests/outside/linkpred-datasets.test.ts` (figures in its doc comment): one basis-decomposed layer is the
  * fastest R-GCN on the WebAssembly backend and matched or beat two layers on the open datasets.
  */
 export const DEFAULT_MODEL_CONFIG: ModelConfig = Object.freeze({
