@@ -6,7 +6,7 @@ import { atLeast, SEVERITIES, type Severity } from '../findings.js';
 import { DEFAULT_MINED_OPTIONS } from '../schema/mined.js';
 import { Chalk } from 'chalk';
 import { createProgressSink } from '../report/index.js';
-import { NOT_VERDICTS_HEAD, formatCount, sourceLabel, truncate } from '../report/common.js';
+import { NOT_VERDICTS_HEAD, countOf, formatCount, sourceLabel, truncate } from '../report/common.js';
 import type { AuditReport } from '../result.js';
 import { writeJson } from '../report/json.js';
 import type { RegisterCommand } from './commands.js';
@@ -120,10 +120,9 @@ function formatCheckSummary(report: AuditReport, color: boolean, top: number): s
   const plain = (text: string): string => text.replace(/[\u0000-\u001f\u007f-\u009f\u2028\u2029]/g, ' ');
   const a = report.accounting;
   const sev = report.summary.bySeverity;
-  const plural = (n: number, word: string): string => `${formatCount(n)} ${word}${n === 1 ? '' : 's'}`;
   const out = [
-    `${c.bold('plumb check')}  ${plural(report.inputs.length, 'input')}, ${formatCount(a.read)} statements read (${formatCount(a.accepted)} accepted, ${formatCount(a.duplicates)} duplicates, ${formatCount(a.rejected)} rejected)`,
-    `${c.bold(plural(report.summary.findings, 'finding'))}: ${paint('error', plural(sev.error, 'error'))}, ${paint('warning', plural(sev.warning, 'warning'))}, ${paint('note', plural(sev.note, 'note'))}`,
+    `${c.bold('plumb check')}  ${countOf(report.inputs.length, 'input')}, ${countOf(a.read, 'statement')} read (${formatCount(a.accepted)} accepted, ${countOf(a.duplicates, 'duplicate')}, ${formatCount(a.rejected)} rejected)`,
+    `${c.bold(countOf(report.summary.findings, 'finding'))}: ${paint('error', countOf(sev.error, 'error'))}, ${paint('warning', countOf(sev.warning, 'warning'))}, ${paint('note', countOf(sev.note, 'note'))}`,
   ];
   const byCheck = new Map<string, Record<Severity, number>>();
   for (const f of report.findings) {
@@ -133,7 +132,7 @@ function formatCheckSummary(report: AuditReport, color: boolean, top: number): s
   }
   const width = Math.max(0, ...[...byCheck.keys()].map((k) => k.length));
   for (const [check, counts] of [...byCheck].sort(([x], [y]) => (x < y ? -1 : 1))) {
-    const parts = SEVERITIES.filter((s) => counts[s] > 0).map((s) => paint(s, plural(counts[s], s)));
+    const parts = SEVERITIES.filter((s) => counts[s] > 0).map((s) => paint(s, countOf(counts[s], s)));
     out.push(`  ${check.padEnd(width)}  ${parts.join(', ')}`);
   }
   const shown = report.findings.slice(0, top);

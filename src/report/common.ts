@@ -81,6 +81,11 @@ export function formatCount(value: number): string {
   return String(value).replace(/\B(?=(\d{3})+(?!\d))/g, ',');
 }
 
+/** A grouped count and its noun, singular for exactly one: "1 error", "12,345 errors". */
+export function countOf(value: number, one: string, many = `${one}s`): string {
+  return `${formatCount(value)} ${value === 1 ? one : many}`;
+}
+
 export const NOT_VERDICTS_HEAD = 'Findings are candidates for review, not verdicts.';
 export const NOT_VERDICTS_TAIL = 'Removing data on the model’s word alone can remove true facts: check each one against a source first.';
 export const NOT_VERDICTS = `${NOT_VERDICTS_HEAD} ${NOT_VERDICTS_TAIL}`;

@@ -4,7 +4,7 @@ import type { Severity } from '../findings.js';
 import { isInteractive, type CliIO } from '../cli/io.js';
 import type { ProgressEvent, ProgressSink } from '../progress.js';
 import type { AuditReport } from '../result.js';
-import { DEFAULT_TOP, NOT_VERDICTS, formatCount, formatShare, sourceLabel, tripleLabel, truncate, type ReportOptions } from './common.js';
+import { DEFAULT_TOP, NOT_VERDICTS, countOf, formatCount, formatShare, sourceLabel, tripleLabel, truncate, type ReportOptions } from './common.js';
 
 /**
  * What a person sees on the terminal: a compact summary (colour only when the caller asks, which
@@ -36,17 +36,17 @@ export function formatTerminalSummary(report: AuditReport, options: TerminalOpti
   const { summary, accounting: a } = report;
   const out: string[] = [];
   out.push(
-    `${c.bold(`plumb ${report.command}`)}  ${report.inputs.length} input${report.inputs.length === 1 ? '' : 's'}, ` +
-      `${formatCount(a.read)} statements read (${formatCount(a.accepted)} accepted, ${formatCount(a.duplicates)} duplicates, ${formatCount(a.rejected)} rejected)`,
+    `${c.bold(`plumb ${report.command}`)}  ${countOf(report.inputs.length, 'input')}, ` +
+      `${countOf(a.read, 'statement')} read (${formatCount(a.accepted)} accepted, ${countOf(a.duplicates, 'duplicate')}, ${formatCount(a.rejected)} rejected)`,
   );
   const sev = summary.bySeverity;
   out.push(
-    `${c.bold(`${formatCount(summary.findings)} finding${summary.findings === 1 ? '' : 's'}`)}: ` +
-      `${paintSeverity(c, 'error', `${formatCount(sev.error)} errors`)}, ${paintSeverity(c, 'warning', `${formatCount(sev.warning)} warnings`)}, ` +
-      `${paintSeverity(c, 'note', `${formatCount(sev.note)} notes`)}  ·  ${formatCount(summary.byKind.violation)} violations, ` +
-      `${formatCount(summary.byKind.suspect)} suspects, ${formatCount(summary.byKind.syntax)} syntax`,
+    `${c.bold(countOf(summary.findings, 'finding'))}: ` +
+      `${paintSeverity(c, 'error', countOf(sev.error, 'error'))}, ${paintSeverity(c, 'warning', countOf(sev.warning, 'warning'))}, ` +
+      `${paintSeverity(c, 'note', countOf(sev.note, 'note'))}  ·  ${countOf(summary.byKind.violation, 'violation')}, ` +
+      `${countOf(summary.byKind.suspect, 'suspect')}, ${formatCount(summary.byKind.syntax)} syntax`,
   );
-  if (summary.scored > 0) out.push(`${formatCount(summary.scored)} triples scored by the model`);
+  if (summary.scored > 0) out.push(`${countOf(summary.scored, 'triple')} scored by the model`);
   const t = summary.trust;
   if (t) {
     out.push(

@@ -33,6 +33,14 @@ describe('terminal summary', () => {
     expect(text).toContain('… 35 more');
   });
 
+  it('says one finding and one error in the singular', () => {
+    const one = manyFindings(1).map((f) => ({ ...f, severity: 'error' as const }));
+    const text = formatTerminalSummary(makeReport(one), { color: false });
+    expect(text).toContain('1 finding:');
+    expect(text).toContain('1 error,');
+    expect(text).not.toMatch(/\b1 (findings|errors)\b/);
+  });
+
   it('colours only when asked', () => {
     expect(formatTerminalSummary(report, { color: true })).toContain(ESC);
   });
