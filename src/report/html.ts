@@ -148,13 +148,22 @@ function summaryHtml(report: AuditReport): string {
       );
     }
   } else {
-    parts.push('<p class="empty">No trust figure for this run: the model did not run, or no errors were planted to measure it.</p>');
+    parts.push(`<p class="empty">${escapeHtml(noTrustReason(report))}</p>`);
   }
   const a = report.accounting;
   parts.push(
     `<p>Read ${formatCount(a.read)} statements: ${formatCount(a.accepted)} accepted, ${formatCount(a.duplicates)} duplicates, ${formatCount(a.rejected)} rejected.</p>`,
   );
   return parts.join('\n');
+}
+
+/** Why a report has no trust figure, from what the run recorded. */
+export function noTrustReason(report: AuditReport): string {
+  const head = 'No trust figure for this run:';
+  if (report.summary.scored === 0) return `${head} the model did not run, so there was no ranking to measure.`;
+  if (report.options.calibrate === true) return `${head} too few triples could take a planted error to measure the ranking.`;
+  if (report.command === 'gate') return `${head} the gate ranks only the incoming triples and does not plant errors. Run plumb audit on the merged graph for one.`;
+  return `${head} it was not measured (--no-calibrate, or the default on large graphs). Pass --calibrate to measure the ranking on planted errors.`;
 }
 
 function inputsHtml(report: AuditReport): string {

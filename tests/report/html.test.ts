@@ -1,6 +1,6 @@
 import { createHash } from 'node:crypto';
 import { describe, expect, it } from 'vitest';
-import { embedJson, escapeHtml, safeHref, writeHtml } from '../../src/report/html.js';
+import { embedJson, escapeHtml, noTrustReason, safeHref, writeHtml } from '../../src/report/html.js';
 import { REPORT_SCRIPT, REPORT_STYLES } from '../../src/report/html-assets.js';
 import { finding, makeReport, manyFindings } from './make-report.js';
 
@@ -70,5 +70,23 @@ describe('report.html (static checks; the browser tests run it)', () => {
     const html = writeHtml(makeReport([finding({ object: big })]));
     expect(html.length).toBeLessThan(200_000);
     expect(html).toContain('more characters');
+  });
+});
+
+describe('the reason a report gives for having no trust figure', () => {
+  const scored = (command: 'audit' | 'gate', calibrate: unknown, n = 10) => {
+    const report = makeReport(manyFindings(3), { command });
+    return noTrustReason({ ...report, summary: { ...report.summary, scored: n }, options: { ...report.options, calibrate } });
+  };
+
+  it('says the model did not run only when nothing was scored', () => {
+    expect(scored('audit', 'auto', 0)).toContain('the model did not run');
+    expect(scored('gate', false)).not.toContain('the model did not run');
+  });
+
+  it('tells a gate user where a trust figure comes from, and an audit user how to turn it on', () => {
+    expect(scored('gate', false)).toContain('Run plumb audit');
+    expect(scored('audit', false)).toContain('--calibrate');
+    expect(scored('audit', true)).toContain('too few triples');
   });
 });
