@@ -36,6 +36,7 @@ export { audit, auditDetailed, auditGraph, AUDIT_DEFAULTS, type AuditOptions, ty
 export { crossFit, type CrossFitOptions, type CrossFitResult } from './scoring/crossfit.js';
 export { plausibility, PLAUSIBILITY_BASES, type PlausibilityBasis } from './scoring/plausibility.js';
 export { explainTriples, type Explanation } from './scoring/explain.js';
+export { evaluateLinkPredictionFiles, evaluateAuditRanking, compareBaselines, readTruth, kindsOf, typeDistributionSuspicion, type LinkPredictionFilesOptions, type LinkPredictionRun, type BaselineComparisonOptions } from './evaluate.js';
 export { corruptGraph, CORRUPTION_KINDS, parseTruth, type CorruptOptions, type Corruption, type CorruptionKind, type TruthEntry } from './evaluation/corrupt.js';
 export { averagePrecision, rocAuc, precisionAt, recallAtShare, detectionMetrics, detectionTable, type DetectionMetrics } from './evaluation/detection.js';
 export { compareMethods, DETECTION_METHODS, type DetectionMethod, type ComparisonRow } from './evaluation/compare.js';

@@ -177,6 +177,16 @@ describe('plumb corrupt → plumb audit → plumb evaluate (CLI)', () => {
       const both = await runCli(['evaluate', '--truth', 'truth.tsv'], { cwd: dir });
       expect(both.exitCode).toBe(2);
       expect(both.stderr).toMatch(/either --report/);
+
+      const baselines = await runCli(['evaluate', '--truth', 'truth.tsv', '--baselines', 'nations.tsv', '--methods', 'random,degree', '--json'], { cwd: dir });
+      expect(baselines.exitCode).toBe(0);
+      const compared = JSON.parse(baselines.stdout);
+      expect(compared.missing).toBe(0);
+      expect(compared.methods.map((m: { method: string }) => m.method)).toEqual(['random', 'degree']);
+      for (const m of compared.methods) expect(m).toMatchObject({ errors: 80, total: 1672 });
+      const unrelated = await runCli(['evaluate', '--truth', 'truth.tsv', '--baselines', nations], { cwd: dir });
+      expect(unrelated.exitCode).toBe(2);
+      expect(unrelated.stderr).toMatch(/none of the 80 truth triples is in the graph/);
     } finally {
       await rm(dir, { recursive: true, force: true });
     }

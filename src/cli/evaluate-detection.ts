@@ -1,16 +1,7 @@
-import { readFile } from 'node:fs/promises';
-import { dirname, join } from 'node:path';
 import type { Command } from 'commander';
 import { PlumbError } from '../errors.js';
-import { SCORES_FILE } from '../audit.js';
-import { compareMethods, comparisonJson, DEFAULT_FOLDS, DETECTION_METHODS, evaluateRanking, formatComparison, parseScores, type DetectionMethod } from '../evaluation/compare.js';
-import { parseTruth, type TruthEntry } from '../evaluation/corrupt.js';
+import { comparisonJson, DEFAULT_FOLDS, DETECTION_METHODS, formatComparison, type DetectionMethod } from '../evaluation/compare.js';
 import type { DetectionMetrics, DetectionTable } from '../evaluation/detection.js';
-import { fit } from '../model/index.js';
-import { filteredRanks } from '../scoring/ranking.js';
-import { readGraph } from '../sources/index.js';
-import { checkGraph } from '../checks/run.js';
-import type { Graph } from '../graph/store.js';
 import type { CliIO } from './io.js';
 import { inputPaths, toReadOptions } from './read-options.js';
 import { parseNumber } from './corrupt.js';
@@ -68,55 +59,12 @@ export function formatDetection(table: DetectionTable, unranked: number): string
   return `${lines.join('\n')}\n`;
 }
 
-async function readText(path: string, what: string): Promise<string> {
-  try {
-    return await readFile(path, 'utf8');
-  } catch (error) {
-    throw new PlumbError('E_INPUT', `cannot read the ${what} ${path}: ${(error as NodeJS.ErrnoException).code ?? (error as Error).message}`, {
-      hint: what === 'scores file' ? `run \`plumb audit\` with this --out folder first: it writes ${SCORES_FILE} beside report.json` : 'check the path',
-      cause: error,
-    });
-  }
-}
-
 function parseMethods(value: string): DetectionMethod[] {
   const names = value.split(',').map((m) => m.trim()).filter(Boolean);
   for (const m of names) {
     if (!(DETECTION_METHODS as readonly string[]).includes(m)) throw new PlumbError('E_USAGE', `unknown method "${m}"`, { hint: `choose from ${DETECTION_METHODS.join(', ')}` });
   }
   return names as DetectionMethod[];
-}
-
-/** Suspicion from the mined type-distribution check alone: flagged triples first, by the broken rule's confidence. */
-export async function typeDistributionSuspicion(graph: Graph): Promise<Float64Array> {
-  const { findings } = await checkGraph(graph, [], [], undefined, { only: ['mined-type'] });
-  const out = new Float64Array(graph.size);
-  for (const f of findings) {
-    if (f.triple === undefined) continue;
-    const confidence = typeof f.evidence.confidence === 'number' ? f.evidence.confidence : 1;
-    const score = typeof f.evidence.score === 'number' ? f.evidence.score : 0;
-    out[f.triple] = Math.max(out[f.triple]!, 1 + confidence * (1 - score));
-  }
-  return out;
-}
-
-/** Label each graph triple with its truth kind (null for the others). */
-export function kindsOf(graph: Graph, truth: readonly TruthEntry[]): { kindOf: Array<string | null>; missing: number } {
-  const key = (s: string, p: string, o: string): string => `${s}\t${p}\t${o}`;
-  const byKey = new Map<string, string>();
-  for (const t of truth) byKey.set(key(t.subject, t.predicate, t.object), t.kind);
-  const kindOf: Array<string | null> = new Array(graph.size).fill(null);
-  const found = new Set<string>();
-  const k = graph.terms;
-  for (let i = 0; i < graph.size; i++) {
-    const id = key(k.key(graph.s[i]!), k.key(graph.p[i]!), k.key(graph.o[i]!));
-    const kind = byKey.get(id);
-    if (kind !== undefined) {
-      kindOf[i] = kind;
-      found.add(id);
-    }
-  }
-  return { kindOf, missing: byKey.size - found.size };
 }
 
 /** Runs the detection mode when its options are present; returns false otherwise (link prediction then). */
@@ -129,42 +77,22 @@ export async function runDetectionEvaluation(options: Record<string, unknown>, i
       hint: '`--report` measures an audit you ran; `--baselines` ranks the graph with each method and compares them',
     });
   }
-  const truthPath = inputPaths([o.truth], io)[0]!;
-  const truth = parseTruth(await readText(truthPath, 'truth file'), o.truth);
-  if (truth.length === 0) throw new PlumbError('E_INPUT', `the truth file ${o.truth} lists no triple`, { hint: 'write one with `plumb corrupt --truth <file>`' });
+  // Loaded on use: the model modules bring TensorFlow.js, which other commands do not need.
+  const { compareBaselines, evaluateAuditRanking, readTruth } = await import('../evaluate.js');
+  const truth = await readTruth(inputPaths([o.truth], io)[0]!);
 
   if (o.report !== undefined) {
-    const reportPath = inputPaths([o.report], io)[0]!;
-    const reportText = await readText(reportPath, 'report');
-    try {
-      const parsed = JSON.parse(reportText) as { format?: string };
-      if (parsed.format !== 'plumb-report') throw new Error('not a plumb report');
-    } catch {
-      throw new PlumbError('E_FORMAT', `${o.report} is not a plumb report.json`, { hint: 'pass the report.json that `plumb audit --out <dir>` wrote' });
-    }
-    const scoresPath = join(dirname(reportPath), SCORES_FILE);
-    const ranking = parseScores(await readText(scoresPath, 'scores file'), scoresPath);
-    const { table, unranked } = evaluateRanking(ranking, truth);
+    const { table, unranked } = await evaluateAuditRanking(inputPaths([o.report], io)[0]!, truth);
     if (o.json) io.stdout.write(`${JSON.stringify({ ...metricsJson(table.overall), unranked, byKind: Object.fromEntries(Object.entries(table.byKind).map(([k, m]) => [k, metricsJson(m)])) }, null, 2)}\n`);
     else io.stdout.write(formatDetection(table, unranked));
     return true;
   }
 
-  const files = inputPaths(o.baselines ?? [], io);
-  const { graph } = await readGraph(files, toReadOptions(options, io));
-  const { kindOf, missing } = kindsOf(graph, truth);
-  if (missing === truth.length) {
-    throw new PlumbError('E_INPUT', `none of the ${truth.length} truth triples is in the graph`, { hint: 'pass the corrupted graph that `plumb corrupt --out` wrote, read with the same options' });
-  }
-  const folds = parseNumber('--folds', o.folds ?? String(DEFAULT_FOLDS), (x) => Number.isInteger(x) && x >= 2 && x <= 100, 'give a whole number from 2 to 100');
-  const seed = o.seed === undefined ? 1 : parseNumber('--seed', o.seed, (x) => Number.isInteger(x) && x >= 0, 'give a whole number');
-  const rows = await compareMethods(graph, kindOf, {
+  const { rows, missing } = await compareBaselines(inputPaths(o.baselines ?? [], io), truth, {
     methods: parseMethods(o.methods ?? DETECTION_METHODS.join(',')),
-    folds,
-    seed,
-    fit,
-    rank: (m, g, t) => filteredRanks(m, g, t),
-    typeDistribution: typeDistributionSuspicion,
+    folds: parseNumber('--folds', o.folds ?? String(DEFAULT_FOLDS), (x) => Number.isInteger(x) && x >= 2 && x <= 100, 'give a whole number from 2 to 100'),
+    seed: o.seed === undefined ? 1 : parseNumber('--seed', o.seed, (x) => Number.isInteger(x) && x >= 0, 'give a whole number'),
+    read: toReadOptions(options, io),
     ...(o.timeBudget !== undefined ? { maxSeconds: parseNumber('--time-budget', o.timeBudget, (x) => x > 0, 'give seconds, e.g. --time-budget 300') } : {}),
   });
   if (o.json) io.stdout.write(`${JSON.stringify({ missing, methods: comparisonJson(rows) }, null, 2)}\n`);

@@ -1,9 +1,9 @@
 import type { Command } from 'commander';
-import { PlumbError, usageError } from '../errors.js';
+import { usageError } from '../errors.js';
+import type { LinkPredictionRun } from '../evaluate.js';
 import type { LinkPredictionMetrics } from '../evaluation/link-prediction.js';
 import type { BackendName } from '../model/types.js';
 import { createProgressSink } from '../report/index.js';
-import { readGraph } from '../sources/index.js';
 import type { RegisterCommand } from './commands.js';
 import { addDetectionOptions, runDetectionEvaluation } from './evaluate-detection.js';
 import type { CliIO } from './io.js';
@@ -51,83 +51,29 @@ export const registerEvaluate: RegisterCommand = (program: Command, { io, setExi
     if (flags.model === undefined || flags.test === undefined) {
       throw usageError('plumb evaluate needs --model <dir> and --test <file> (link prediction), or --truth with --report or --baselines (detection)', 'run `plumb evaluate --help` for examples');
     }
-    const result = await evaluateFiles(String(flags.model), String(flags.test), (flags.known as string[] | undefined) ?? [], flags, io);
+    const progress = createProgressSink(io);
+    let result: LinkPredictionRun;
+    try {
+      const known = inputPaths((flags.known as string[] | undefined) ?? [], io);
+      // Loaded on use: the model modules bring TensorFlow.js, which other commands do not need.
+      const { evaluateLinkPredictionFiles } = await import('../evaluate.js');
+      result = await evaluateLinkPredictionFiles({
+        model: inputPaths([String(flags.model)], io)[0]!,
+        test: inputPaths([String(flags.test)], io)[0]!,
+        known,
+        read: toReadOptions(flags, io),
+        backend: (flags.backend as BackendName | 'auto' | undefined) ?? 'auto',
+        progress: progress.sink,
+      });
+    } finally {
+      progress.stop();
+    }
+    io.stderr.write(`plumb: model backend ${result.backend}${result.filteredBy === 'test' ? '; no --known files, so ranks are filtered by the test triples only' : ''}\n`);
     if (flags.json === true) io.stdout.write(`${JSON.stringify(linkPredictionJson(result.metrics, result.backend), null, 2)}\n`);
     else io.stdout.write(linkPredictionText(result.metrics, result.filteredBy));
     setExitCode(0);
   });
 };
-
-export interface LinkPredictionRun {
-  metrics: LinkPredictionMetrics;
-  backend: BackendName;
-  filteredBy: 'known' | 'test';
-}
-
-/** Reads the test file (first, so its triples win duplicates) and the known files into one graph and ranks the test triples. */
-export async function evaluateFiles(modelDir: string, test: string, known: string[], flags: Record<string, unknown>, io: CliIO): Promise<LinkPredictionRun> {
-  const { loadModel } = await import('../model/index.js');
-  const { evaluateLinkPrediction } = await import('../evaluation/link-prediction.js');
-  const { indexesOfKeys, knownFrom } = await import('../scoring/ranking.js');
-  const backendFlag = (flags.backend as BackendName | 'auto' | undefined) ?? 'auto';
-  const progress = createProgressSink(io);
-  try {
-    const read = await readGraph(inputPaths([test, ...known], io), { ...toReadOptions(flags, io), progress: progress.sink });
-    const graph = read.graph;
-    const isTest = new Uint8Array(graph.size);
-    let tests = 0;
-    for (let t = 0; t < graph.size; t++) if (graph.provenance.file[t] === 0) (isTest[t] = 1), tests++;
-    if (tests === 0) throw new PlumbError('E_INPUT', `the test file ${test} holds no triple`, { hint: 'pass a file of test triples with --test' });
-    const testTriples = Int32Array.from({ length: tests }, () => 0);
-    for (let t = 0, k = 0; t < graph.size; t++) if (isTest[t]) testTriples[k++] = t;
-
-    if (known.length === 0) {
-      // No graph to pass messages over: score with the embeddings saved at fit time.
-      const model = await loadModel(modelDir, undefined, { backend: backendFlag });
-      io.stderr.write(`plumb: model backend ${model.backend}; no --known files, so ranks are filtered by the test triples only\n`);
-      try {
-        const keys = Array.from(testTriples, (t) => [graph.terms.key(graph.s[t]!), graph.terms.key(graph.p[t]!), graph.terms.key(graph.o[t]!)] as const);
-        const dictionary = (model as { dictionary?: import('../graph/terms.js').TermDictionary }).dictionary!;
-        const entityOf = (key: string): number => model.entities.ofTerm[dictionary.id(key)] ?? -1;
-        const relationOf = (key: string): number => (dictionary.id(key) < 0 ? -1 : (model.relations.ofTerm[dictionary.id(key)] ?? -1));
-        const index = {
-          s: Int32Array.from(keys, (k) => entityOf(k[0])),
-          r: Int32Array.from(keys, (k) => relationOf(k[1])),
-          o: Int32Array.from(keys, (k) => entityOf(k[2])),
-        };
-        const metrics = await evaluateLinkPrediction(model, graph, index, knownFrom(model, index), progress.sink);
-        return { metrics, backend: model.backend, filteredBy: 'test' };
-      } finally {
-        model.dispose();
-      }
-    }
-
-    const model = await loadModel(modelDir, graph, { backend: backendFlag, exclude: isTest });
-    io.stderr.write(`plumb: model backend ${model.backend}\n`);
-    try {
-      const all = Int32Array.from({ length: graph.size }, (_, t) => t);
-      const { s, r, o } = indexesOfKeys(model, graph, Array.from(all, (t) => [graph.terms.key(graph.s[t]!), graph.terms.key(graph.p[t]!), graph.terms.key(graph.o[t]!)] as const));
-      const filter = knownFrom(model, { s, r, o });
-      // Rank only test triples whose entities the saved model knew: an entity first seen in the test has no evidence.
-      const unseen = model.unseen;
-      const pick = (column: Int32Array): Int32Array => Int32Array.from(testTriples, (t) => column[t]!);
-      const ts = pick(s);
-      const tr = pick(r);
-      const to = pick(o);
-      if (unseen) {
-        for (let i = 0; i < ts.length; i++) {
-          if ((ts[i]! >= 0 && unseen[ts[i]!]) || (to[i]! >= 0 && unseen[to[i]!])) ts[i] = -1;
-        }
-      }
-      const metrics = await evaluateLinkPrediction(model, graph, { s: ts, r: tr, o: to }, filter, progress.sink);
-      return { metrics, backend: model.backend, filteredBy: 'known' };
-    } finally {
-      model.dispose();
-    }
-  } finally {
-    progress.stop();
-  }
-}
 
 const round = (x: number): number => Number(x.toFixed(6));
 

@@ -36,6 +36,12 @@ describe('plumb fit and plumb evaluate', () => {
 
     const text = await runCli(['evaluate', '--model', model, '--test', nations('test'), '--known', nations('train'), nations('valid')]);
     expect(text.stdout).toMatch(/^filtered MRR \d\.\d{4} {3}Hits@1 \d\.\d{4} {3}Hits@3 \d\.\d{4} {3}Hits@10 \d\.\d{4}\n402 queries/);
+
+    // Without --known the saved embeddings rank the test triples, filtered by the test triples alone.
+    const alone = await runCli(['evaluate', '--model', model, '--test', nations('test')]);
+    expect(alone.exitCode).toBe(0);
+    expect(alone.stderr).toContain('filtered by the test triples only');
+    expect(alone.stdout).toMatch(/402 queries .*; filtered by the test triples only/);
   });
 
   it('refuses bad usage with exit code 2 and a message', async () => {
