@@ -12,9 +12,8 @@ import { explainTriples, explanationLine, type Explanation } from './scoring/exp
 import { corruptGraph, CORRUPTION_KINDS, termToField } from './evaluation/corrupt.js';
 import { detectionTable } from './evaluation/detection.js';
 import { VERSION } from './version.js';
-import { PlumbError } from './errors.js';
-import { readGraph, type ReadOptions, type ReadResult } from './sources/index.js';
-import { checkGraph, rejectionFinding } from './checks/run.js';
+import type { ReadOptions } from './sources/index.js';
+import { checkGraph, readInputs, rejectionFinding } from './checks/run.js';
 import type { RunChecksOptions } from './checks/index.js';
 import { fit, loadModel } from './model/index.js';
 import { filteredRanks } from './scoring/ranking.js';
@@ -673,19 +672,7 @@ export interface AuditRunOptions extends AuditOptions {
 
 /** `plumb audit` as a function, with the full ranking of scored triples beside the report. */
 export async function auditDetailed(paths: readonly string[], options: AuditRunOptions = {}): Promise<AuditRun> {
-  const progress = options.progress;
-  const started = performance.now();
-  const read = options.read ?? {};
-  const data = await readGraph(paths, { ...read, ...(progress ? { progress } : {}) });
-  const side = async (files: readonly string[] | undefined, what: string): Promise<ReadResult | undefined> => {
-    if (!files || files.length === 0) return undefined;
-    if (files.includes('-')) throw new PlumbError('E_USAGE', `${what} files cannot be read from standard input`, { hint: `give the ${what} file by name` });
-    return readGraph(files, { ...(read.baseIri !== undefined ? { baseIri: read.baseIri } : {}), ...(read.strict !== undefined ? { strict: read.strict } : {}) });
-  };
-  const schemaRead = await side(options.schema, '--schema');
-  const shapesRead = await side(options.shapes, '--shapes');
-  const readSeconds = (performance.now() - started) / 1000;
-  const rejections = [...data.rejections, ...(schemaRead?.rejections ?? []), ...(shapesRead?.rejections ?? [])];
+  const { data, schemaRead, shapesRead, rejections, readSeconds } = await readInputs(paths, options);
   const graphOptions: AuditGraphOptions = {
     ...options,
     inputs: data.inputs,

@@ -59,6 +59,38 @@ export function rejectionFinding(rejection: Rejection): Finding {
   };
 }
 
+export interface InputsRead {
+  data: ReadResult;
+  schemaRead: ReadResult | undefined;
+  shapesRead: ReadResult | undefined;
+  /** Every statement rejected in the graph, schema and shapes files, in that order. */
+  rejections: Rejection[];
+  readSeconds: number;
+}
+
+/**
+ * Reads the graph files, then the `--schema` and `--shapes` files with the same base IRI and
+ * strictness (never from standard input: that stream is the graph's). Shared by `check` and `audit`.
+ */
+export async function readInputs(
+  paths: readonly string[],
+  options: { schema?: readonly string[] | undefined; shapes?: readonly string[] | undefined; read?: ReadOptions | undefined; progress?: ProgressSink | undefined },
+): Promise<InputsRead> {
+  const started = performance.now();
+  const read = options.read ?? {};
+  const progress = options.progress;
+  const data = await readGraph(paths, { ...read, ...(progress ? { progress } : {}) });
+  const side = async (files: readonly string[] | undefined, what: string): Promise<ReadResult | undefined> => {
+    if (!files || files.length === 0) return undefined;
+    if (files.includes('-')) throw new PlumbError('E_USAGE', `${what} files cannot be read from standard input`, { hint: `give the ${what} file by name` });
+    return readGraph(files, { ...(read.baseIri !== undefined ? { baseIri: read.baseIri } : {}), ...(read.strict !== undefined ? { strict: read.strict } : {}) });
+  };
+  const schemaRead = await side(options.schema, '--schema');
+  const shapesRead = await side(options.shapes, '--shapes');
+  const rejections = [...data.rejections, ...(schemaRead?.rejections ?? []), ...(shapesRead?.rejections ?? [])];
+  return { data, schemaRead, shapesRead, rejections, readSeconds: (performance.now() - started) / 1000 };
+}
+
 /**
  * `plumb check` as a function: reads the graph, the `--schema` and `--shapes` files, runs the checks
  * and returns the report (command `check`, no model). Problems in the input files are thrown as
@@ -68,23 +100,12 @@ export async function check(paths: readonly string[], options: CheckRunOptions =
   // Validate the check selection before reading anything large.
   const checks = selectedChecks(options);
   const progress = options.progress;
-  const started = performance.now();
-  const read = options.read ?? {};
-  const data = await readGraph(paths, { ...read, ...(progress ? { progress } : {}) });
-  const side = async (files: readonly string[] | undefined, what: string): Promise<ReadResult | undefined> => {
-    if (!files || files.length === 0) return undefined;
-    if (files.includes('-')) throw new PlumbError('E_USAGE', `${what} files cannot be read from standard input`, { hint: `give the ${what} file by name` });
-    return readGraph(files, { ...(read.baseIri !== undefined ? { baseIri: read.baseIri } : {}), ...(read.strict !== undefined ? { strict: read.strict } : {}) });
-  };
-  const schemaRead = await side(options.schema, '--schema');
-  const shapesRead = await side(options.shapes, '--shapes');
-  const readSeconds = (performance.now() - started) / 1000;
+  const { data, schemaRead, shapesRead, rejections, readSeconds } = await readInputs(paths, options);
 
   const checkStarted = performance.now();
   const result = await checkGraph(data.graph, schemaRead ? [schemaRead.graph] : [], shapesRead ? [shapesRead.graph] : [], progress, options);
   const checkSeconds = (performance.now() - checkStarted) / 1000;
 
-  const rejections = [...data.rejections, ...(schemaRead?.rejections ?? []), ...(shapesRead?.rejections ?? [])];
   const findings = sortFindings([...rejections.map(rejectionFinding), ...result.findings]);
   const resolved = resolveCheckOptions(options);
   return checkReport(data.graph, findings, {
