@@ -51,7 +51,11 @@ export async function evaluateLinkPredictionFiles(options: LinkPredictionFilesOp
   const graph = read.graph;
   const isTest = new Uint8Array(graph.size);
   let tests = 0;
-  for (let t = 0; t < graph.size; t++) if (graph.provenance.file[t] === 0) (isTest[t] = 1), tests++;
+  for (let t = 0; t < graph.size; t++) {
+    if (graph.provenance.file[t] !== 0) continue;
+    isTest[t] = 1;
+    tests++;
+  }
   if (tests === 0) throw new PlumbError('E_INPUT', `the test file ${options.test} holds no triple`, { hint: 'pass a file of test triples with --test' });
   const testTriples = new Int32Array(tests);
   for (let t = 0, k = 0; t < graph.size; t++) if (isTest[t]) testTriples[k++] = t;

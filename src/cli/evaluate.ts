@@ -6,7 +6,6 @@ import type { BackendName } from '../model/types.js';
 import { createProgressSink } from '../report/index.js';
 import type { RegisterCommand } from './commands.js';
 import { addDetectionOptions, runDetectionEvaluation } from './evaluate-detection.js';
-import type { CliIO } from './io.js';
 import { addBackendOption } from './fit.js';
 import { addReadOptions, inputPaths, toReadOptions } from './read-options.js';
 

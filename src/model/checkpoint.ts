@@ -114,7 +114,6 @@ async function refuseForeignDirectory(target: string): Promise<void> {
 }
 
 async function replaceDirectory(temp: string, target: string): Promise<void> {
-  let old: string | undefined;
   try {
     await fs.rename(temp, target);
     return;
@@ -122,7 +121,7 @@ async function replaceDirectory(temp: string, target: string): Promise<void> {
     const code = (error as NodeJS.ErrnoException).code;
     if (code !== 'ENOTEMPTY' && code !== 'EEXIST' && code !== 'EISDIR' && code !== 'ENOTDIR') throw error;
   }
-  old = `${temp}.old`;
+  const old = `${temp}.old`;
   await fs.rename(target, old);
   await fs.rename(temp, target);
   await fs.rm(old, { recursive: true, force: true });

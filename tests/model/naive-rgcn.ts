@@ -75,8 +75,11 @@ export function naiveLayer(h: Matrix, edges: NaiveEdge[], w0: Matrix, weightOf: 
   return out;
 }
 
+/** A number, or arrays of them nested to any depth; callers cast to the shape they asked for. */
+export type Nested = number | Nested[];
+
 /** Reads a flat row-major array into nested arrays of the given shape (2-D, 3-D or 4-D). */
-export function nest(values: ArrayLike<number>, shape: number[]): any {
+export function nest(values: ArrayLike<number>, shape: number[]): Nested {
   const [head, ...rest] = shape;
   const size = rest.reduce((a, b) => a * b, 1);
   return Array.from({ length: head! }, (_, i) => (rest.length === 0 ? values[i]! : nest(Array.prototype.slice.call(values, i * size, (i + 1) * size), rest)));
