@@ -20,7 +20,7 @@ const MODEL_FLAGS: { flag: string; key: keyof ModelConfig; kind: Kind; help: str
   { flag: 'layers', key: 'layers', kind: 'integer', low: 1, high: 8, help: 'R-GCN layers' },
   { flag: 'decomposition', key: 'decomposition', kind: 'choice', choices: ['none', 'basis', 'block'], help: 'how each relation weight W_r is parameterised' },
   { flag: 'bases', key: 'bases', kind: 'integer', low: 1, high: 1024, help: 'basis matrices (--decomposition basis)' },
-  { flag: 'blocks', key: 'blocks', kind: 'integer', low: 1, high: 4096, help: 'diagonal blocks (--decomposition block; must divide --dim)' },
+  { flag: 'blocks', key: 'blocks', kind: 'integer', low: 1, high: 4096, help: 'diagonal blocks (--decomposition block; must divide --dim; default 10, or the divisor of --dim nearest dim/10)' },
   { flag: 'dropout', key: 'dropout', kind: 'number', low: 0, high: 0.95, help: 'feature dropout on each layer input while training' },
   { flag: 'edge-dropout', key: 'edgeDropout', kind: 'number', low: 0, high: 0.95, help: 'share of triples left out of message passing at each step' },
   { flag: 'negatives', key: 'negatives', kind: 'integer', low: 1, high: 1000, help: 'corrupted triples per positive' },

@@ -47,10 +47,12 @@ async function matmulRate(): Promise<number> {
 }
 
 /**
- * A graph with structure a relational model can learn: each entity has a latent type (50, sizes
- * skewed) and a community (60); each predicate links a domain type to a range type and, four times
- * in five, stays within the subject's community. Subjects are drawn with skewed popularity, so many
- * entities have few triples — where evidence from neighbours matters.
+ * A graph with the kinds of structure real knowledge graphs have: each entity has a latent type (50,
+ * sizes skewed) and a community (60); three predicates in five are *base* predicates linking a domain
+ * type to a range type, four times in five within the subject's community; the rest are *derived*
+ * two-hop predicates q = p1 ∘ p2 (q(x, z) holds for some x, z with p1(x, y) and p2(y, z)), like
+ * nationality = born-in ∘ located-in. Subjects are drawn with skewed popularity, so many entities
+ * have few triples.
  */
 export function structuredGraph(entities: number, predicates: number, triples: number, seed = 1): Triple[] {
   const random = new Random(seed);
@@ -66,13 +68,23 @@ export function structuredGraph(entities: number, predicates: number, triples: n
     if (!byTypeCommunity.has(key)) byTypeCommunity.set(key, []);
     byTypeCommunity.get(key)!.push(e);
   }
-  const domain = Int32Array.from({ length: predicates }, () => Math.floor(types * random.next() ** 1.5));
-  const range = Int32Array.from({ length: predicates }, () => Math.floor(types * random.next() ** 1.5));
+  const baseCount = Math.max(1, Math.round(predicates * 0.6));
+  const domain = Int32Array.from({ length: baseCount }, () => Math.floor(types * random.next() ** 1.5));
+  const range = Int32Array.from({ length: baseCount }, () => Math.floor(types * random.next() ** 1.5));
   const seen = new Set<string>();
   const out: Triple[] = [];
   const name = (e: number): string => `http://bench.invalid/e${e}`;
-  while (out.length < triples) {
-    const p = Math.floor(predicates * random.next() ** 2);
+  const add = (s: number, p: number, o: number): void => {
+    const key = `${s} ${p} ${o}`;
+    if (s === o || seen.has(key)) return;
+    seen.add(key);
+    out.push([name(s), `http://bench.invalid/p${p}`, name(o)]);
+  };
+  // Base triples: 60 % of the total, predicates with skewed frequency.
+  const objectsOf = new Map<number, number[]>();
+  const baseTriples = Math.round(triples * 0.6);
+  while (out.length < baseTriples) {
+    const p = Math.floor(baseCount * random.next() ** 2);
     const subjects = byType[domain[p]!]!;
     if (subjects.length === 0) continue;
     const s = subjects[Math.floor(subjects.length * random.next() ** 2)]!;
@@ -80,17 +92,45 @@ export function structuredGraph(entities: number, predicates: number, triples: n
     const pool = random.next() < 0.8 && local && local.length > 0 ? local : byType[range[p]!]!;
     if (pool.length === 0) continue;
     const o = pool[random.int(pool.length)]!;
-    if (o === s) continue;
-    const key = `${s} ${p} ${o}`;
-    if (seen.has(key)) continue;
-    seen.add(key);
-    out.push([name(s), `http://bench.invalid/p${p}`, name(o)]);
+    const before = out.length;
+    add(s, p, o);
+    if (out.length > before) {
+      const key = p * entities + s;
+      if (!objectsOf.has(key)) objectsOf.set(key, []);
+      objectsOf.get(key)!.push(o);
+    }
+  }
+  // Derived predicates: a chain p1 ∘ p2 of base predicates whose types meet.
+  const chains: [number, number][] = [];
+  for (let q = baseCount; q < predicates; q++) {
+    for (let tries = 0; tries < 100; tries++) {
+      const p1 = random.int(baseCount);
+      const next = Array.from({ length: baseCount }, (_, p) => p).filter((p) => domain[p] === range[p1]);
+      if (next.length === 0) continue;
+      chains.push([p1, next[random.int(next.length)]!]);
+      break;
+    }
+    if (chains.length < q - baseCount + 1) chains.push([random.int(baseCount), random.int(baseCount)]);
+  }
+  const subjectsOf: number[][] = Array.from({ length: baseCount }, () => []);
+  for (const key of objectsOf.keys()) subjectsOf[Math.floor(key / entities)]!.push(key % entities);
+  for (let guard = 0; out.length < triples && guard < triples * 50; guard++) {
+    const q = random.int(chains.length);
+    const [p1, p2] = chains[q]!;
+    const subjects = subjectsOf[p1]!;
+    if (subjects.length === 0) continue;
+    const x = subjects[random.int(subjects.length)]!;
+    const ys = objectsOf.get(p1 * entities + x)!;
+    const y = ys[random.int(ys.length)]!;
+    const zs = objectsOf.get(p2 * entities + y);
+    if (!zs) continue;
+    add(x, baseCount + q, zs[random.int(zs.length)]!);
   }
   return out;
 }
 
 /** Seeded split into train / valid / test, keeping valid and test triples whose entities occur in train. */
-function split(all: Triple[], share: number, seed: number): { train: Triple[]; valid: Triple[]; test: Triple[] } {
+export function split(all: Triple[], share: number, seed: number): { train: Triple[]; valid: Triple[]; test: Triple[] } {
   const random = new Random(seed);
   const order = random.shuffle(Int32Array.from({ length: all.length }, (_, i) => i));
   const held = Math.round(all.length * share);
@@ -125,7 +165,7 @@ interface RunFigures {
   wall: number;
 }
 
-async function trainAndTest(label: string, data: { train: Triple[]; valid: Triple[]; test: Triple[] }, options: FitOptions): Promise<RunFigures> {
+export async function trainAndTest(label: string, data: { train: Triple[]; valid: Triple[]; test: Triple[] }, options: FitOptions): Promise<RunFigures> {
   const { graph, starts } = graphOf([data.train, data.valid]);
   const valid = Int32Array.from({ length: starts[2]! - starts[1]! }, (_, i) => starts[1]! + i);
   const started = performance.now();
