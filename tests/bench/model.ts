@@ -162,6 +162,9 @@ interface RunFigures {
   triplesPerSecond: number;
   mrr: number;
   hits10: number;
+  /** Seconds until `fit` returned (training, the best epoch's weights, the final embeddings). */
+  fit: number;
+  /** Fit plus ranking the test triples. */
   wall: number;
 }
 
@@ -173,6 +176,7 @@ export async function trainAndTest(label: string, data: { train: Triple[]; valid
   try {
     model = await fit(graph, { backend: 'wasm', valid, ...options });
     const fitted = (performance.now() - started) / 1000;
+    const fitSeconds = fitted;
     const test = indexesOfKeys(model, graph, data.test);
     const known = knownFrom(model, indexesOfKeys(model, graph, [...data.train, ...data.valid, ...data.test]));
     const metrics = await evaluateLinkPrediction(model, graph, test, known);
@@ -184,6 +188,7 @@ export async function trainAndTest(label: string, data: { train: Triple[]; valid
       triplesPerSecond: (data.train.length * epochs) / fitted,
       mrr: metrics.mrr,
       hits10: metrics.hits10,
+      fit: fitSeconds,
       wall: (performance.now() - started) / 1000,
     };
   } finally {
@@ -192,11 +197,11 @@ export async function trainAndTest(label: string, data: { train: Triple[]; valid
 }
 
 function printRuns(runs: RunFigures[]): void {
-  console.log('  model                         epochs   s/epoch   triples/s   test MRR   Hits@10   wall s');
+  console.log('  model                         epochs   s/epoch   triples/s   test MRR   Hits@10    fit s   wall s');
   for (const r of runs) {
     console.log(
       `  ${r.label.padEnd(28)} ${String(r.epochs).padStart(7)} ${r.secondsPerEpoch.toFixed(2).padStart(9)} ${Math.round(r.triplesPerSecond).toLocaleString('en-US').padStart(11)} ` +
-        `${r.mrr.toFixed(4).padStart(10)} ${r.hits10.toFixed(4).padStart(9)} ${r.wall.toFixed(0).padStart(8)}`,
+        `${r.mrr.toFixed(4).padStart(10)} ${r.hits10.toFixed(4).padStart(9)} ${r.fit.toFixed(0).padStart(8)} ${r.wall.toFixed(0).padStart(8)}`,
     );
   }
 }
@@ -305,13 +310,14 @@ export async function run(): Promise<void> {
       `R-GCN inside ${goal.budget / 60} minutes, beside DistMult with the same budget (98/1/1 split):`,
   );
   const synthetic = split(structuredGraph(goal.entities, goal.predicates, goal.triples, 11), 0.01, 2);
+  // The fit's own budget leaves half a minute of the goal for the final embeddings and the test ranking.
   const runs = [
-    await trainAndTest('R-GCN (defaults)', synthetic, { maxSeconds: goal.budget }),
+    await trainAndTest('R-GCN (defaults)', synthetic, { maxSeconds: goal.budget - 30 }),
     await trainAndTest('DistMult', synthetic, { encoder: 'none', maxSeconds: goal.budget }),
   ];
   printRuns(runs);
   const [rgcn, distmult] = runs as [RunFigures, RunFigures];
-  console.log(`  R-GCN wall time ${rgcn.wall.toFixed(0)} s (goal ≤ ${goal.budget} s): ${rgcn.wall <= goal.budget ? 'met' : 'missed'}; MRR ${rgcn.mrr.toFixed(4)} vs DistMult ${distmult.mrr.toFixed(4)}: ${rgcn.mrr > distmult.mrr ? 'R-GCN ahead' : 'DistMult ahead'}`);
+  console.log(`  R-GCN fit and test ranking ${rgcn.wall.toFixed(0)} s (goal ≤ ${goal.budget} s): ${rgcn.wall <= goal.budget ? 'met' : 'missed'}; MRR ${rgcn.mrr.toFixed(4)} vs DistMult ${distmult.mrr.toFixed(4)}: ${rgcn.mrr > distmult.mrr ? 'R-GCN ahead' : 'DistMult ahead'}`);
 }
 
 if (import.meta.url === `file://${process.argv[1]}`) await run();
