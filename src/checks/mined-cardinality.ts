@@ -18,7 +18,8 @@ export const minedCardinality: Check = {
     description:
       'An entity has two or more values of a predicate where at least --min-confidence of its (at least ' +
       '--min-support) subjects have exactly one; or the same for objects shared by several subjects. A warning ' +
-      'when the rule holds on 99% of 100 or more.',
+      'when the rule holds on 99% of 100 or more. Numbers, dates and booleans are left out of the shared-value ' +
+      'direction: many subjects share them by nature.',
     messages: {
       out: '{entity} has {count} values of {predicate}, but {single} of the {support} subjects of {predicate} have one',
       in: '{entity} is the value of {predicate} for {count} subjects, but {single} of the {support} values of {predicate} belong to one',

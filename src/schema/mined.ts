@@ -1,5 +1,5 @@
 import { row, type Graph } from '../graph/store.js';
-import { TermKind } from '../graph/terms.js';
+import { TermKind, XSD } from '../graph/terms.js';
 import type { Schema } from './index.js';
 import { V, isSchemaVocabulary } from './vocab.js';
 
@@ -177,6 +177,27 @@ export interface CardinalityRule {
   breaches: Map<number, number[]>;
 }
 
+/**
+ * Literal datatypes whose values many entities share by nature (numbers, dates and times, booleans):
+ * two people born on one day do not break an "at most one subject per value" rule the way two
+ * people with one passport number do. The `in` direction leaves literals of these datatypes out.
+ */
+const SHARED_BY_NATURE = new Set(
+  [
+    'integer', 'decimal', 'double', 'float', 'long', 'int', 'short', 'byte', 'nonNegativeInteger', 'positiveInteger',
+    'nonPositiveInteger', 'negativeInteger', 'unsignedLong', 'unsignedInt', 'unsignedShort', 'unsignedByte',
+    'date', 'dateTime', 'dateTimeStamp', 'time', 'gYear', 'gYearMonth', 'gMonth', 'gMonthDay', 'gDay',
+    'duration', 'dayTimeDuration', 'yearMonthDuration', 'boolean',
+  ].map((local) => `"^^<${XSD}${local}>`),
+);
+
+/** True for a literal key whose datatype is in {@link SHARED_BY_NATURE}. */
+function sharedByNature(key: string): boolean {
+  if (key.charCodeAt(0) !== 34) return false;
+  const end = key.lastIndexOf('"');
+  return SHARED_BY_NATURE.has(key.slice(end));
+}
+
 /** Mines "at most one value" rules per predicate and direction, with the entities that break them. */
 export function mineCardinality(graph: Graph, schema: Schema, options: MinedOptions, skip: (p: number, direction: Direction) => boolean = () => false): CardinalityRule[] {
   const keys = graph.terms.allKeys();
@@ -188,6 +209,7 @@ export function mineCardinality(graph: Graph, schema: Schema, options: MinedOpti
   // The first triple per entity, reused across predicates (reset through `touched`).
   const first = new Int32Array(graph.terms.size).fill(-1);
   const langLiteral = new Int8Array(graph.terms.size); // 0 unknown, 1 yes, 2 no
+  const sharedValue = new Int8Array(graph.terms.size); // 0 unknown, 1 yes, 2 no
   for (let p = 0; p < graph.terms.size; p++) {
     const triples = row(graph.byPredicate, p);
     if (triples.length < options.minSupport || p === schema.typePredicate || isSchemaVocabulary(keys[p]!)) continue;
@@ -200,6 +222,10 @@ export function mineCardinality(graph: Graph, schema: Schema, options: MinedOpti
         const o = graph.o[t]!;
         if (langLiteral[o] === 0) langLiteral[o] = isLangLiteral(o) ? 1 : 2;
         if (langLiteral[o] === 1) continue;
+        if (direction === 'in') {
+          if (sharedValue[o] === 0) sharedValue[o] = sharedByNature(keys[o]!) ? 1 : 2;
+          if (sharedValue[o] === 1) continue;
+        }
         const e = from[t]!;
         const f = first[e]!;
         if (f < 0) {
