@@ -7,7 +7,8 @@ import type { ModelConfig } from './types.js';
  *   0.719, each ahead of plain DistMult (0.711, 0.506, 0.705); basis with 4 bases reached 0.697, 0.543,
  *   0.697 (`tests/outside/linkpred-datasets.test.ts`). On the benchmark's structured graph (40k
  *   triples, 200 relation types) the validation MRR after 80 epochs was 0.199 for block-10, 0.167 for
- *   basis-4 and 0.185 for DistMult, at about the same seconds per epoch (`tests/bench/model.ts`);
+ *   basis-4 and 0.185 for DistMult. It costs about 1.6× basis-4's time per training step at 300k
+ *   triples (`tests/bench/model.ts`), which still fits the 15-minute goal there;
  * - patience 10: R-GCN's validation MRR often stalls for several epochs before it rises again; with
  *   patience 5 a fit of that graph stopped at epoch 9 with test MRR 0.113, with 10 it reached 0.195.
  */
